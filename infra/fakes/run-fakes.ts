@@ -1,0 +1,42 @@
+import { join } from 'node:path';
+import { loadSettings } from '@localis/shared';
+import { startOidcFake } from './oidc/oidc-fake';
+import { startS3Fake } from './s3/s3-fake';
+import { startMailFake } from './mail/mail-fake';
+
+/**
+ * Runs the local stand-ins for the hosted services, each a real server on loopback:
+ * identity provider (OIDC), object store (S3) and mail (SMTP + inbox).
+ */
+const s = loadSettings(process.env);
+const closers: Array<() => Promise<void>> = [];
+
+async function main() {
+  const oidc = await startOidcFake({
+    issuer: s.OIDC_ISSUER,
+    host: '127.0.0.1',
+    port: s.OIDC_PORT,
+    clientId: s.OIDC_CLIENT_ID,
+    clientSecret: s.OIDC_CLIENT_SECRET,
+    postLogoutRedirectUris: [`${s.PUBLIC_URL}/signed-out`],
+    openDomain: s.LOCALIS_PROFILE === 'test' ? 'test.example' : undefined,
+  });
+  closers.push(oidc.close);
+  const s3 = await startS3Fake({ host: '127.0.0.1', port: s.S3_PORT, directory: join(s.DATA_DIR, 's3'), buckets: [s.S3_BUCKET] });
+  closers.push(s3.close);
+  const mail = await startMailFake({ host: s.SMTP_HOST, smtpPort: s.SMTP_PORT, inboxPort: s.MAIL_INBOX_PORT });
+  closers.push(mail.close);
+  console.log(`fakes ready: oidc ${s.OIDC_ISSUER}, s3 ${s.S3_ENDPOINT}, smtp ${s.SMTP_HOST}:${s.SMTP_PORT} (inbox http://${s.SMTP_HOST}:${s.MAIL_INBOX_PORT})`);
+}
+
+async function shutdown() {
+  for (const close of closers.reverse()) await close().catch(() => undefined);
+  process.exit(0);
+}
+process.on('SIGTERM', shutdown);
+process.on('SIGINT', shutdown);
+
+main().catch((e) => {
+  console.error('fakes failed to start:', e);
+  process.exit(1);
+});

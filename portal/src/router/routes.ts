@@ -1,0 +1,66 @@
+import type { RouteRecordRaw } from 'vue-router';
+import './route-meta';
+
+/** Every page of the portal. Later slices add their feature's routes here. */
+export const routes: RouteRecordRaw[] = [
+  {
+    path: '/sign-in',
+    name: 'sign-in',
+    component: () => import('../views/auth/sign-in-view.vue'),
+    meta: { title: 'Sign in', guestOnly: true },
+  },
+  {
+    path: '/not-a-member',
+    name: 'not-a-member',
+    component: () => import('../views/auth/not-a-member-view.vue'),
+    meta: { title: 'Not a member yet' },
+  },
+  {
+    path: '/signed-out',
+    name: 'signed-out',
+    component: () => import('../views/auth/signed-out-view.vue'),
+    meta: { title: 'Signed out' },
+  },
+  {
+    path: '/',
+    name: 'home',
+    component: () => import('../views/home/home-view.vue'),
+    meta: { title: 'Home', requiresAuth: true },
+  },
+  {
+    path: '/profile',
+    name: 'profile',
+    component: () => import('../views/profile/profile-view.vue'),
+    meta: { title: 'Your profile', requiresAuth: true },
+  },
+  {
+    path: '/admin/people',
+    name: 'admin-people',
+    component: () => import('../views/admin/people/people-view.vue'),
+    meta: { title: 'People', requiresAuth: true, roles: ['admin'] },
+  },
+  {
+    path: '/admin/institutions',
+    name: 'admin-institutions',
+    component: () => import('../views/admin/institutions/institutions-view.vue'),
+    meta: { title: 'Institutions', requiresAuth: true, roles: ['admin'] },
+  },
+  {
+    path: '/admin/audit',
+    name: 'admin-audit',
+    component: () => import('../views/admin/audit/audit-view.vue'),
+    meta: { title: 'Audit log', requiresAuth: true, roles: ['admin'] },
+  },
+  {
+    path: '/not-allowed',
+    name: 'not-allowed',
+    component: () => import('../views/errors/not-allowed-view.vue'),
+    meta: { title: 'Not allowed', requiresAuth: true },
+  },
+  {
+    path: '/:pathMatch(.*)*',
+    name: 'not-found',
+    component: () => import('../views/errors/not-found-view.vue'),
+    meta: { title: 'Page not found' },
+  },
+];

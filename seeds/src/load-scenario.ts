@@ -1,0 +1,94 @@
+import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
+import { dirname, join } from 'node:path';
+import { hashToken } from '@localis/api/tokens';
+import { createServices, SYSTEM_CONTEXT, type Services } from '@localis/api/services';
+import type { Database } from '@localis/api/db';
+import { TOKEN_SCOPES, type Settings } from '@localis/shared';
+import { ApiToken, Institution, Person, ResearchGroup } from '@localis/api/db';
+import { GROUPS, INSTITUTIONS, PEOPLE } from './scenario';
+
+const SEED_CONTEXT = { ...SYSTEM_CONTEXT, userAgent: 'localis-demo-scenario' };
+
+export interface LoadReport {
+  institutions: number;
+  people: number;
+  groups: number;
+  members: number;
+  tokens: number;
+}
+
+/**
+ * Load the demo scenario through the services, so every rule and audit entry applies.
+ * Repeatable: what exists (by fixed id) is left alone, so a second load changes nothing.
+ */
+export async function loadScenario(db: Database, settings: Settings): Promise<LoadReport> {
+  const services = createServices(db, settings);
+  const report: LoadReport = { institutions: 0, people: 0, groups: 0, members: 0, tokens: 0 };
+
+  for (const i of INSTITUTIONS) {
+    if (await Institution.findByPk(i.id)) continue;
+    await services.institutions.create(SEED_CONTEXT, { name: i.name, kind: i.kind, country: i.country, billingEmail: i.billingEmail }, i.id);
+    report.institutions++;
+  }
+  for (const p of PEOPLE) {
+    if (await Person.findByPk(p.id)) continue;
+    await services.people.create(SEED_CONTEXT, { name: p.name, email: p.email, institutionId: p.institutionId, roles: p.roles }, p.id);
+    report.people++;
+  }
+  for (const g of GROUPS) {
+    if (!(await ResearchGroup.findByPk(g.id))) {
+      await services.groups.create(SEED_CONTEXT, { name: g.name, institutionId: g.institutionId, piPersonId: g.piPersonId }, g.id);
+      report.groups++;
+    }
+    const detail = await services.groups.get(adminContext(), g.id);
+    for (const memberId of g.memberIds) {
+      if (detail.members.some((m) => m.personId === memberId)) continue;
+      await services.groups.addMember(adminContext(), g.id, memberId);
+      report.members++;
+    }
+  }
+  report.tokens = await ensureDemoTokens(services, settings);
+  return report;
+}
+
+/** The seed acts with the office's rights where a rule needs a person (group membership). */
+function adminContext() {
+  const admin = PEOPLE.find((p) => p.roles.includes('admin'))!;
+  return {
+    ...SEED_CONTEXT,
+    principal: { personId: admin.id, name: admin.name, email: admin.email, institutionId: admin.institutionId, roles: admin.roles, scopes: [...TOKEN_SCOPES], via: 'session' as const },
+  };
+}
+
+/**
+ * Each demo person gets an API token, written to DATA_DIR/demo-tokens.json as
+ * { "<e-mail>": "<token>" } so the CLI and scripts can be tried at once. Kept while valid.
+ */
+async function ensureDemoTokens(services: Services, settings: Settings): Promise<number> {
+  const file = join(settings.DATA_DIR, 'demo-tokens.json');
+  const existing: Record<string, string> = existsSync(file) ? JSON.parse(readFileSync(file, 'utf8')) : {};
+  const result: Record<string, string> = {};
+  let created = 0;
+  for (const p of PEOPLE) {
+    const known = existing[p.email];
+    if (known) {
+      const row = await ApiToken.findOne({ where: { tokenHash: hashToken(known) } });
+      if (row && !row.revokedAt && row.expiresAt.getTime() > Date.now() + 86_400_000) {
+        result[p.email] = known;
+        continue;
+      }
+    }
+    const person = await services.people.get(adminContext(), p.id);
+    const ctx = {
+      ...SEED_CONTEXT,
+      principal: { personId: p.id, name: p.name, email: p.email, institutionId: p.institutionId, roles: person.roles, scopes: [...TOKEN_SCOPES], via: 'session' as const },
+    };
+    const scopes = TOKEN_SCOPES.filter((s) => s !== 'admin' || person.roles.includes('admin'));
+    const { secret } = await services.tokens.create(ctx, { name: 'demo token', scopes, expiresInDays: 366 });
+    result[p.email] = secret;
+    created++;
+  }
+  mkdirSync(dirname(file), { recursive: true });
+  writeFileSync(file, JSON.stringify(result, null, 2) + '\n', { mode: 0o600 });
+  return created;
+}

@@ -1,0 +1,149 @@
+import { existsSync } from 'node:fs';
+import { join, resolve } from 'node:path';
+import express, { type NextFunction, type Request, type Response } from 'express';
+import session from 'express-session';
+import connectPgSimple from 'connect-pg-simple';
+import helmet from 'helmet';
+import pg from 'pg';
+import { pinoHttp } from 'pino-http';
+import type { Logger } from 'pino';
+import type { Redis } from 'ioredis';
+import { databaseUrl, type Settings } from '@localis/shared';
+import type { Database } from './db';
+import { createServices } from './services';
+import { authenticate } from './http/authenticate';
+import { authorize } from './http/authorize';
+import { csrfProtection } from './http/csrf';
+import { errorHandler, notFoundHandler } from './http/error-handler';
+import { buildOpenApi } from './http/openapi';
+import { createRateLimits } from './http/rate-limits';
+import { API_PREFIX, fullPath, type RouteSpec } from './http/route-registry';
+import { validate } from './http/validate';
+import { createAuthController, SESSION_COOKIE } from './auth/auth.controller';
+import { authRoutes } from './auth/auth.router';
+import { auditRoutes } from './audit/audit.router';
+import { groupsRoutes } from './groups/groups.router';
+import { healthRoutes } from './health/health.router';
+import { institutionsRoutes } from './institutions/institutions.router';
+import { peopleRoutes } from './people/people.router';
+import { profileRoutes } from './profile/profile.router';
+import { tokensRoutes } from './tokens/tokens.router';
+
+export const PORTAL_DIST = resolve(import.meta.dirname, '..', '..', '..', 'portal', 'dist');
+const VERSION = '0.1.0';
+
+export interface AppDeps {
+  settings: Settings;
+  db: Database;
+  redis: Redis;
+  logger: Logger;
+}
+
+/** Every route of the API, in one table: mounted, authorized, validated and documented from it. */
+export function buildRoutes(deps: AppDeps, authController: ReturnType<typeof createAuthController>): RouteSpec[] {
+  const services = createServices(deps.db, deps.settings);
+  const routes: RouteSpec[] = [
+    ...healthRoutes(deps.db, deps.redis),
+    ...authRoutes(authController),
+    ...profileRoutes(),
+    ...tokensRoutes(services.tokens),
+    ...peopleRoutes(services.people),
+    ...institutionsRoutes(services.institutions),
+    ...groupsRoutes(services.groups),
+    ...auditRoutes(),
+  ];
+  let openapi: unknown;
+  routes.push({
+    method: 'get', path: '/openapi.json', tag: 'meta', summary: 'This description of the API (OpenAPI 3.1)',
+    access: { kind: 'public' }, responses: { 200: { description: 'OpenAPI document' } },
+    handler: (_req, res) => res.json((openapi ??= buildOpenApi(routes, VERSION))),
+  });
+  return routes;
+}
+
+export function createApp(deps: AppDeps) {
+  const { settings: s, logger } = deps;
+  const services = createServices(deps.db, s);
+  const secure = s.PUBLIC_URL.startsWith('https:');
+  const app = express();
+  app.disable('x-powered-by');
+  // The api runs behind a proxy on loopback in production set-ups; trust only that hop.
+  app.set('trust proxy', 'loopback');
+
+  app.use(
+    pinoHttp({
+      logger,
+      redact: { paths: ['req.headers.authorization', 'req.headers.cookie', 'req.headers["x-csrf-token"]', 'res.headers["set-cookie"]'], censor: '[removed]' },
+      autoLogging: { ignore: (req) => req.url === '/healthz' || req.url === '/readyz' || !!req.url?.startsWith('/assets/') },
+      customLogLevel: (_req, res, err) => (err || res.statusCode >= 500 ? 'error' : res.statusCode >= 400 ? 'info' : 'debug'),
+    }),
+  );
+  app.use(
+    helmet({
+      contentSecurityPolicy: {
+        useDefaults: false,
+        directives: {
+          defaultSrc: ["'self'"],
+          scriptSrc: ["'self'"],
+          // PrimeVue's styled mode writes its theme into <style> elements at run time.
+          styleSrc: ["'self'", "'unsafe-inline'"],
+          imgSrc: ["'self'", 'data:'],
+          fontSrc: ["'self'", 'data:'],
+          connectSrc: ["'self'"],
+          objectSrc: ["'none'"],
+          baseUri: ["'self'"],
+          frameAncestors: ["'none'"],
+          formAction: ["'self'", new URL(s.OIDC_ISSUER).origin],
+          ...(secure ? { upgradeInsecureRequests: [] } : {}),
+        },
+      },
+      strictTransportSecurity: secure,
+      crossOriginEmbedderPolicy: false,
+    }),
+  );
+  app.use(express.json({ limit: s.BODY_LIMIT }));
+
+  const PgStore = connectPgSimple(session);
+  const sessionPool = new pg.Pool({ connectionString: databaseUrl(s), max: 5 });
+  app.use(
+    session({
+      name: SESSION_COOKIE,
+      secret: s.SESSION_SECRET,
+      store: new PgStore({ pool: sessionPool, tableName: 'sessions', createTableIfMissing: false, pruneSessionInterval: 15 * 60 }),
+      resave: false,
+      saveUninitialized: false,
+      cookie: { httpOnly: true, sameSite: 'lax', secure, maxAge: s.SESSION_HOURS * 3600_000, path: '/' },
+    }),
+  );
+
+  const authController = createAuthController(s, services.signIn, logger);
+  app.use(...authController.passportMiddleware);
+  app.use(authenticate(services.tokens));
+
+  const limits = createRateLimits(deps.redis, s);
+  const routes = buildRoutes(deps, authController);
+  for (const route of routes) {
+    const chain = [
+      ...(route.signIn ? [limits.signIn] : []),
+      limits.token,
+      authorize(route.access),
+      csrfProtection,
+      validate(route.request),
+      route.handler as (req: Request, res: Response, next: NextFunction) => unknown,
+    ];
+    app[route.method](fullPath(route), ...chain);
+  }
+  app.use(API_PREFIX, notFoundHandler);
+
+  // The built portal, with the single-page app's own routes answered by index.html.
+  if (existsSync(join(PORTAL_DIST, 'index.html'))) {
+    app.use(express.static(PORTAL_DIST, { index: false, maxAge: '1h', setHeaders: (res, path) => path.includes('/assets/') && res.setHeader('Cache-Control', 'public, max-age=31536000, immutable') }));
+    app.get('/{*spa}', (_req, res) => {
+      res.set('Cache-Control', 'no-cache').sendFile(join(PORTAL_DIST, 'index.html'));
+    });
+  }
+  app.use(notFoundHandler);
+  app.use(errorHandler(logger, s.BODY_LIMIT));
+
+  return { app, routes, close: () => sessionPool.end() };
+}

@@ -1,0 +1,3 @@
+export * from './database';
+export * from './migrator';
+export * from './models';

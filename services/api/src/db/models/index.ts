@@ -1,0 +1,47 @@
+import type { Sequelize } from 'sequelize';
+import { Institution } from './institution.model';
+import { Person } from './person.model';
+import { ResearchGroup, GroupMembership } from './research-group.model';
+import { RoleGrant } from './role-grant.model';
+import { ApiToken } from './api-token.model';
+import { AuditLog } from './audit-log.model';
+import { OutboxMessage } from './outbox-message.model';
+
+export { Institution, Person, ResearchGroup, GroupMembership, RoleGrant, ApiToken, AuditLog, OutboxMessage };
+
+export interface Models {
+  Institution: typeof Institution;
+  Person: typeof Person;
+  ResearchGroup: typeof ResearchGroup;
+  GroupMembership: typeof GroupMembership;
+  RoleGrant: typeof RoleGrant;
+  ApiToken: typeof ApiToken;
+  AuditLog: typeof AuditLog;
+  OutboxMessage: typeof OutboxMessage;
+}
+
+/**
+ * Bind the models to one Sequelize instance (they are module singletons, so one database per
+ * process). Tables come from migrations, never from sync().
+ */
+export function initModels(sequelize: Sequelize): Models {
+  Institution.initModel(sequelize);
+  Person.initModel(sequelize);
+  ResearchGroup.initModel(sequelize);
+  GroupMembership.initModel(sequelize);
+  RoleGrant.initModel(sequelize);
+  ApiToken.initModel(sequelize);
+  AuditLog.initModel(sequelize);
+  OutboxMessage.initModel(sequelize);
+
+  Person.belongsTo(Institution, { foreignKey: 'institutionId', as: 'institution' });
+  Person.hasMany(RoleGrant, { foreignKey: 'personId', as: 'roleGrants' });
+  RoleGrant.belongsTo(Person, { foreignKey: 'personId', as: 'person' });
+  ResearchGroup.belongsTo(Institution, { foreignKey: 'institutionId', as: 'institution' });
+  ResearchGroup.belongsTo(Person, { foreignKey: 'piPersonId', as: 'pi' });
+  ResearchGroup.hasMany(GroupMembership, { foreignKey: 'groupId', as: 'memberships' });
+  GroupMembership.belongsTo(Person, { foreignKey: 'personId', as: 'person' });
+  GroupMembership.belongsTo(ResearchGroup, { foreignKey: 'groupId', as: 'group' });
+  AuditLog.belongsTo(Person, { foreignKey: 'actorPersonId', as: 'actor' });
+  return { Institution, Person, ResearchGroup, GroupMembership, RoleGrant, ApiToken, AuditLog, OutboxMessage };
+}

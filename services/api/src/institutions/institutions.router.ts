@@ -1,0 +1,32 @@
+import type { Request, Response } from 'express';
+import { IdParams, Institution, InstitutionInput, InstitutionListQuery, InstitutionPage, InstitutionPatch } from '@localis/shared';
+import { contextOf } from '../http/principal';
+import { access, defineRoutes } from '../http/route-registry';
+import type { InstitutionsService } from './institutions.service';
+
+export function institutionsRoutes(service: InstitutionsService) {
+  const c = {
+    list: async (req: Request, res: Response) => res.json(await service.list(req.valid.query)),
+    get: async (req: Request, res: Response) => res.json(await service.get(req.valid.params.id)),
+    create: async (req: Request, res: Response) => res.status(201).json(await service.create(contextOf(req), req.valid.body)),
+    update: async (req: Request, res: Response) => res.json(await service.update(contextOf(req), req.valid.params.id, req.valid.body)),
+  };
+  return defineRoutes([
+    {
+      method: 'get', path: '/institutions', tag: 'institutions', summary: 'Member and partner institutions',
+      access: access.read(), request: { query: InstitutionListQuery }, responses: { 200: { description: 'A page', schema: InstitutionPage } }, handler: c.list,
+    },
+    {
+      method: 'get', path: '/institutions/:id', tag: 'institutions', summary: 'One institution',
+      access: access.read(), request: { params: IdParams }, responses: { 200: { description: 'The institution', schema: Institution } }, handler: c.get,
+    },
+    {
+      method: 'post', path: '/institutions', tag: 'institutions', summary: 'Add an institution',
+      access: access.admin(), request: { body: InstitutionInput }, responses: { 201: { description: 'Added', schema: Institution } }, handler: c.create,
+    },
+    {
+      method: 'patch', path: '/institutions/:id', tag: 'institutions', summary: 'Change an institution',
+      access: access.admin(), request: { params: IdParams, body: InstitutionPatch }, responses: { 200: { description: 'Updated', schema: Institution } }, handler: c.update,
+    },
+  ]);
+}

@@ -1,0 +1,22 @@
+import type { Settings } from '@localis/shared';
+import type { Database } from './db';
+import { createGroupsService } from './groups/groups.service';
+import { createInstitutionsService } from './institutions/institutions.service';
+import { createPeopleService } from './people/people.service';
+import { createSignInService } from './auth/sign-in.service';
+import { createTokensService } from './tokens/tokens.service';
+
+/** The composition root of the rules: seeds, the api and the worker all go through these. */
+export function createServices(db: Database, s: Settings) {
+  return {
+    people: createPeopleService(db, s.PUBLIC_URL),
+    institutions: createInstitutionsService(db),
+    groups: createGroupsService(db),
+    tokens: createTokensService(db),
+    signIn: createSignInService(db),
+  };
+}
+export type Services = ReturnType<typeof createServices>;
+
+export { auditService, SYSTEM_CONTEXT } from './audit/audit.service';
+export { openDatabase } from './db';
