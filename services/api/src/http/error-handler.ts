@@ -34,5 +34,5 @@ export function errorHandler(logger: Logger, bodyLimit: string) {
 }
 
 export function notFoundHandler(req: Request, _res: Response, next: NextFunction) {
-  next(errors.noRoute(req.method, req.path));
+  next(errors.noRoute(req.method, req.originalUrl.split('?')[0]));
 }

@@ -33,7 +33,9 @@ export function buildOpenApi(routes: RouteSpec[], version: string) {
       ...(r.access.kind === 'signed-in'
         ? { description: `Needs ${r.access.roles ? `the role ${r.access.roles.join(' or ')}` : 'a signed-in person'}; API tokens need the "${r.access.scope}" scope.` }
         : {}),
-      requestParams: { path: r.request?.params, query: r.request?.query },
+      ...(r.request?.params || r.request?.query
+        ? { requestParams: { ...(r.request.params ? { path: r.request.params } : {}), ...(r.request.query ? { query: r.request.query } : {}) } }
+        : {}),
       ...(r.request?.body ? { requestBody: { content: { 'application/json': { schema: r.request.body } } } } : {}),
       responses,
     } as never;

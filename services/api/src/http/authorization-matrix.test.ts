@@ -1,0 +1,80 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { BrowserSession, createInstitution, createPerson, startTestApp, SYSTEM, type TestApp } from '../../test/harness';
+import { ACTORS, MATRIX, type Actor, type Fixtures } from './authorization-matrix';
+import { fullPath } from './route-registry';
+
+let t: TestApp;
+let fixtures: Fixtures;
+const emails = new Map<Actor, string>();
+const sessions = new Map<Actor, BrowserSession>();
+
+beforeAll(async () => {
+  t = await startTestApp();
+  const instA = await createInstitution(t);
+  const instB = await createInstitution(t);
+  const partner = await createInstitution(t, 'partner');
+  const researcher = await createPerson(t, { roles: ['researcher'], institutionId: instA.id, label: 'researcher' });
+  const pi = await createPerson(t, { roles: ['pi', 'researcher'], institutionId: instA.id, label: 'pi' });
+  const committee = await createPerson(t, { roles: ['committee'], institutionId: instB.id, label: 'committee' });
+  const admin = await createPerson(t, { roles: ['admin'], institutionId: instB.id, label: 'admin' });
+  const billing = await createPerson(t, { roles: ['billing'], institutionId: partner.id, label: 'billing' });
+  const otherPi = await createPerson(t, { roles: ['pi', 'researcher'], institutionId: instB.id, label: 'otherpi' });
+  const extra = await createPerson(t, { roles: ['researcher'], institutionId: instA.id, label: 'extra' });
+  const groupA = await t.services.groups.create(SYSTEM, { name: 'Matrix Group A', institutionId: instA.id, piPersonId: pi.id });
+  await t.services.groups.addMember({ ...SYSTEM, principal: { personId: pi.id, name: pi.name, email: pi.email, institutionId: instA.id, roles: pi.roles, scopes: [], via: 'session' } }, groupA.id, researcher.id);
+  await t.services.groups.create(SYSTEM, { name: 'Matrix Group B', institutionId: instB.id, piPersonId: otherPi.id });
+  const byActor: Record<Exclude<Actor, 'anonymous'>, typeof researcher> = { researcher, pi, committee, admin, billing, otherGroupPi: otherPi };
+  for (const [actor, person] of Object.entries(byActor)) emails.set(actor as Actor, person.email);
+  await Promise.all(
+    ACTORS.map(async (actor) => {
+      const session = new BrowserSession(t.url);
+      if (actor === 'anonymous') await session.refreshSession();
+      else await session.signIn(emails.get(actor)!);
+      sessions.set(actor, session);
+    }),
+  );
+  fixtures = {
+    institutionA: instA.id,
+    groupA: groupA.id,
+    researcherId: researcher.id,
+    piId: pi.id,
+    extraId: extra.id,
+    async tokenIdOf(actor) {
+      const res = await sessions.get(actor)!.api('POST', '/api/v1/me/tokens', { name: 'to revoke', scopes: ['read'], expiresInDays: 1 });
+      return ((await res.json()) as { token: { id: string } }).token.id;
+    },
+    async addExtraToGroupA() {
+      await t.services.groups.addMember({ ...SYSTEM, principal: { personId: admin.id, name: admin.name, email: admin.email, institutionId: null, roles: ['admin'], scopes: [], via: 'session' } }, groupA.id, extra.id);
+    },
+  };
+}, 120_000);
+afterAll(async () => t.close());
+
+describe('authorization matrix', () => {
+  describe('coverage', () => {
+    it('should list every route of the app when a route is added', () => {
+      const registered = t.routes.map((r) => `${r.method.toUpperCase()} ${fullPath(r)}`).sort();
+      const listed = MATRIX.map((r) => `${r.method} ${r.route}`).sort();
+      expect(registered.filter((r) => !listed.includes(r)), 'routes missing from the matrix').toEqual([]);
+      expect(listed.filter((r) => !registered.includes(r)), 'matrix rows without a route').toEqual([]);
+    });
+  });
+
+  describe('statuses', () => {
+    it.each(MATRIX.map((row) => [`${row.method} ${row.route}`, row] as const))('should answer %s as the table says for every caller', async (_name, row) => {
+      const got: Record<string, number> = {};
+      for (const actor of ACTORS) {
+        if (row.before) await row.before(fixtures);
+        let session = sessions.get(actor)!;
+        if (row.freshSession && actor !== 'anonymous') {
+          session = new BrowserSession(t.url);
+          await session.signIn(emails.get(actor)!);
+        }
+        const path = await row.path(fixtures, actor);
+        const res = await session.api(row.method, path, row.body?.(fixtures));
+        got[actor] = res.status;
+      }
+      expect(got).toEqual(row.expect);
+    });
+  });
+});
