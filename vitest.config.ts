@@ -9,10 +9,12 @@ export default defineConfig({
     projects: [
       { test: { name: 'unit', include: ['shared/src/**/*.test.ts', 'infra/**/*.test.ts', 'seeds/**/*.test.ts'], environment: 'node' } },
       'portal/vitest.config.ts',
-      { test: { name: 'api', include: ['services/api/**/*.test.ts'], testTimeout: 30_000, hookTimeout: 60_000 } },
+      // api files run one after another: some change consortium-wide state (the admins).
+      { test: { name: 'api', include: ['services/api/**/*.test.ts'], testTimeout: 30_000, hookTimeout: 60_000, fileParallelism: false } },
       { test: { name: 'worker', include: ['services/worker/**/*.test.ts'], testTimeout: 30_000, hookTimeout: 60_000 } },
       { test: { name: 'cli', include: ['services/cli/**/*.test.ts'], testTimeout: 30_000, hookTimeout: 60_000 } },
-      { test: { name: 'browser', include: ['portal/e2e/**/*.e2e.test.ts'], testTimeout: 90_000, hookTimeout: 90_000, fileParallelism: false } },
+      // The browser suite runs after the others (groupOrder) against the running test stack.
+      { test: { name: 'browser', include: ['portal/e2e/**/*.e2e.test.ts'], testTimeout: 90_000, hookTimeout: 90_000, fileParallelism: false, sequence: { groupOrder: 1 } } },
     ],
   },
 });
