@@ -7,10 +7,10 @@ import { defineConfig } from 'vitest/config';
 export default defineConfig({
   test: {
     projects: [
-      { test: { name: 'unit', include: ['shared/src/**/*.test.ts', 'infra/**/*.test.ts', 'seeds/**/*.test.ts'], environment: 'node' } },
+      { test: { name: 'unit', include: ['shared/src/**/*.test.ts', 'infra/**/*.test.ts'], environment: 'node' } },
       'portal/vitest.config.ts',
       // api files run one after another: some change consortium-wide state (the admins).
-      { test: { name: 'api', include: ['services/api/**/*.test.ts'], testTimeout: 30_000, hookTimeout: 60_000, fileParallelism: false } },
+      { test: { name: 'api', include: ['services/api/**/*.test.ts', 'seeds/**/*.test.ts'], testTimeout: 30_000, hookTimeout: 60_000, fileParallelism: false } },
       { test: { name: 'worker', include: ['services/worker/**/*.test.ts'], testTimeout: 30_000, hookTimeout: 60_000 } },
       { test: { name: 'cli', include: ['services/cli/**/*.test.ts'], testTimeout: 30_000, hookTimeout: 60_000 } },
       // The browser suite runs after the others (groupOrder) against the running test stack.
