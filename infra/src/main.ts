@@ -38,16 +38,16 @@ async function main(): Promise<number> {
   process.on('SIGTERM', onSignal);
 
   try {
-    await startInfrastructure(s, env, group, { freshDatabase: mode === 'test' || mode === 'bench' });
+    await startInfrastructure(s, env, group, { freshDatabase: mode === 'test' || mode === 'bench', fakes: mode !== 'bench' });
     if (mode === 'bench') {
-      return await runChild('npx', ['tsx', join(ROOT, 'infra', 'src', 'bench.ts'), ...extraArgs], env);
+      return await runChild(join(ROOT, 'node_modules', '.bin', 'tsx'), [join(ROOT, 'infra', 'src', 'bench.ts'), ...extraArgs], env);
     }
     runOnce('the demo scenario', 'seeds/src/load.cli.ts', [], env);
     if (mode === 'dev') {
       const apiPort = s.APP_PORT + 1;
       await startApplication(s, env, group, { watch: true, apiPort });
       group.start('portal', 'npm', ['run', 'dev', '-w', '@localis/portal'], { ...env, API_PORT: String(apiPort) });
-      announce(s.PUBLIC_URL, s.DATA_DIR);
+      announce(s.PUBLIC_URL, s.DATA_DIR, s.MAIL_INBOX_PORT);
       await group.anyExit();
       return 1;
     }
@@ -59,7 +59,7 @@ async function main(): Promise<number> {
       console.log(`tests: ${summary.passed} passed, ${summary.failed} failed`);
       return code !== 0 || summary.failed > 0 || summary.passed === 0 ? 1 : 0;
     }
-    announce(s.PUBLIC_URL, s.DATA_DIR);
+    announce(s.PUBLIC_URL, s.DATA_DIR, s.MAIL_INBOX_PORT);
     const crashed = await group.anyExit();
     console.error(`localis: ${crashed.name} stopped unexpectedly; stopping the rest`);
     return 1;
@@ -75,7 +75,7 @@ function runChild(cmd: string, args: string[], env: Record<string, string>): Pro
   });
 }
 
-function announce(url: string, dataDir: string) {
+function announce(url: string, dataDir: string, inboxPort: number) {
   const tokens = (() => {
     try {
       return JSON.parse(readFileSync(join(dataDir, 'demo-tokens.json'), 'utf8')) as Record<string, string>;
@@ -91,7 +91,7 @@ Demo sign-ins (password for every account: ${DEMO_PASSWORD}):
 ${lines.join('\n')}
 
 API tokens for the CLI and scripts: ${join(dataDir, 'demo-tokens.json')} (${Object.keys(tokens).length} tokens)
-Mail inbox of the local mail server: http://127.0.0.1:${process.env.MAIL_INBOX_PORT ?? '1080'}/index.html
+Mail inbox of the local mail server: http://127.0.0.1:${inboxPort}/index.html
 Stop with Ctrl-C, or \`npm run stop\` from another shell.
 `);
 }

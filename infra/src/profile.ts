@@ -14,6 +14,8 @@ export function profileEnv(mode: 'start' | 'dev' | 'test' | 'bench' | 'stop', fo
   for (const [k, v] of Object.entries(process.env)) if (v !== undefined) base[k] = v;
   if (forTest) {
     Object.assign(base, TEST_PROFILE);
+    // The benchmark keeps its own database so it never touches the test data.
+    if (mode === 'bench') Object.assign(base, { PG_DATABASE: 'localis_bench', LOG_LEVEL: 'silent' });
   } else {
     const envFile = join(ROOT, '.env');
     if (existsSync(envFile)) Object.assign(base, parse(readFileSync(envFile)), pickDefined(process.env));

@@ -41,19 +41,21 @@ export function buildPortalIfStale(env: Record<string, string>): void {
 }
 
 /** The services every profile needs: PostgreSQL, Redis, the fakes; then migrations. */
-export async function startInfrastructure(s: Settings, env: Record<string, string>, group: ProcessGroup, opts: { freshDatabase: boolean }) {
+export async function startInfrastructure(s: Settings, env: Record<string, string>, group: ProcessGroup, opts: { freshDatabase: boolean; fakes?: boolean }) {
   step(`PostgreSQL on ${s.PG_HOST}:${s.PG_PORT}`);
   startPostgres(s);
   await ensureDatabase(s, opts.freshDatabase);
   step(`Redis on ${s.REDIS_HOST}:${s.REDIS_PORT}`);
   await startRedis(s);
-  step('local fakes: identity provider, object store, mail');
-  group.start('fakes', TSX, [join(ROOT, 'infra', 'fakes', 'run-fakes.ts')], env);
-  await Promise.all([
-    waitForHttp(`${s.OIDC_ISSUER}/.well-known/openid-configuration`, 'the identity-provider fake'),
-    waitForPort('127.0.0.1', s.S3_PORT, 'the object-store fake'),
-    waitForPort(s.SMTP_HOST, s.SMTP_PORT, 'the mail fake'),
-  ]);
+  if (opts.fakes !== false) {
+    step('local fakes: identity provider, object store, mail');
+    group.start('fakes', TSX, [join(ROOT, 'infra', 'fakes', 'run-fakes.ts')], env);
+    await Promise.all([
+      waitForHttp(`${s.OIDC_ISSUER}/.well-known/openid-configuration`, 'the identity-provider fake'),
+      waitForPort('127.0.0.1', s.S3_PORT, 'the object-store fake'),
+      waitForPort(s.SMTP_HOST, s.SMTP_PORT, 'the mail fake'),
+    ]);
+  }
   step('migrations');
   runOnce('migrations', 'services/api/src/db/migrate.cli.ts', ['up'], env);
 }

@@ -4,7 +4,7 @@ import type { AddressInfo } from 'node:net';
 import { Redis } from 'ioredis';
 import { pino } from 'pino';
 import { DEMO_PASSWORD } from '@localis/seeds/scenario';
-import { loadSettings, TOKEN_SCOPES, type Role, type Settings, type TokenScope } from '@localis/shared';
+import { loadSettings, TOKEN_SCOPES, type Role, type SessionInfo, type Settings, type TokenScope } from '@localis/shared';
 import { createApp } from '../src/app';
 import { openDatabase, type Database } from '../src/db';
 import type { RequestContext } from '../src/http/principal';
@@ -149,7 +149,7 @@ export class BrowserSession {
 
   async refreshSession() {
     const res = await this.fetch(`${this.appUrl}/api/v1/session`);
-    const body = (await res.json()) as { csrfToken: string };
+    const body = (await res.json()) as SessionInfo;
     this.csrfToken = body.csrfToken;
     return body;
   }
