@@ -22,6 +22,11 @@ async function main(): Promise<number> {
   const s = settingsOf(env);
   const runDir = join(s.DATA_DIR, 'run');
   mkdirSync(runDir, { recursive: true });
+  const running = runningStack(join(runDir, 'stack.pid'));
+  if (running) {
+    console.error(`localis: a ${mode === 'test' ? 'test run' : 'Localis stack'} is already running here (pid ${running}); stop it with \`npm run stop\` or Ctrl-C in its shell.`);
+    return 1;
+  }
   writeFileSync(join(runDir, 'stack.pid'), String(process.pid));
   const group = new ProcessGroup(runDir);
 
@@ -65,6 +70,17 @@ async function main(): Promise<number> {
     return 1;
   } finally {
     await stop();
+  }
+}
+
+/** The pid of a live orchestrator of this profile, if one is running. */
+function runningStack(pidFile: string): number | null {
+  try {
+    const pid = Number(readFileSync(pidFile, 'utf8'));
+    process.kill(pid, 0);
+    return pid;
+  } catch {
+    return null;
   }
 }
 

@@ -1,36 +1,29 @@
-import { execFileSync, spawnSync } from 'node:child_process';
-import { existsSync, mkdirSync } from 'node:fs';
+import { existsSync, realpathSync } from 'node:fs';
 import { join } from 'node:path';
 import pg from 'pg';
 import type { Settings } from '@localis/shared';
+import { asUser, serviceDir } from './service-dir';
 
 const BIN = '/usr/lib/postgresql/15/bin';
-const isRoot = process.getuid?.() === 0;
+const asPostgres = (cmd: string, args: string[]) => asUser('postgres', join(BIN, cmd), args);
 
-/** initdb and pg_ctl refuse to run as root: run them as the postgres user when we are root. */
-function asPostgres(cmd: string, args: string[]): { status: number | null; output: string } {
-  const [file, fullArgs] = isRoot ? ['runuser', ['-u', 'postgres', '--', join(BIN, cmd), ...args]] : [join(BIN, cmd), args];
-  const r = spawnSync(file, fullArgs, { encoding: 'utf8' });
-  return { status: r.status, output: `${r.stdout ?? ''}${r.stderr ?? ''}` };
-}
-
-export function clusterDir(s: Settings): string {
-  return join(s.DATA_DIR, 'pg');
+/** DATA_DIR/pg, resolved through the link when the cluster lives outside (see service-dir). */
+function existingClusterDir(s: Settings): string | null {
+  const dir = join(s.DATA_DIR, 'pg');
+  return existsSync(join(dir, 'PG_VERSION')) ? realpathSync(dir) : null;
 }
 
 /** Create the project-local cluster under DATA_DIR/pg on first use, then start it on loopback. */
 export function startPostgres(s: Settings): void {
-  const dir = clusterDir(s);
-  mkdirSync(s.DATA_DIR, { recursive: true });
+  const dir = serviceDir(s.DATA_DIR, 'pg', 'postgres');
   if (!existsSync(join(dir, 'PG_VERSION'))) {
-    if (isRoot) execFileSync('install', ['-d', '-o', 'postgres', '-g', 'postgres', '-m', '700', dir]);
-    else mkdirSync(dir, { recursive: true, mode: 0o700 });
     const init = asPostgres('initdb', ['-D', dir, '-U', s.PG_USER, '-A', 'trust', '-E', 'UTF8', '--locale=C.UTF-8']);
     if (init.status !== 0) throw new Error(`initdb failed:\n${init.output}`);
   }
   if (asPostgres('pg_ctl', ['-D', dir, 'status']).status === 0) return;
   const started = asPostgres('pg_ctl', [
     '-D', dir, '-l', join(dir, 'server.log'), '-w', '-t', '60',
+    // fsync off only for the throwaway test database: it makes the suite faster, nothing else.
     '-o', `-c listen_addresses=${s.PG_HOST} -p ${s.PG_PORT} -c unix_socket_directories=${dir} -c fsync=${s.LOCALIS_PROFILE === 'test' ? 'off' : 'on'}`,
     'start',
   ]);
@@ -38,9 +31,8 @@ export function startPostgres(s: Settings): void {
 }
 
 export function stopPostgres(s: Settings): void {
-  const dir = clusterDir(s);
-  if (!existsSync(join(dir, 'PG_VERSION'))) return;
-  if (asPostgres('pg_ctl', ['-D', dir, 'status']).status !== 0) return;
+  const dir = existingClusterDir(s);
+  if (!dir || asPostgres('pg_ctl', ['-D', dir, 'status']).status !== 0) return;
   asPostgres('pg_ctl', ['-D', dir, '-m', 'fast', '-w', 'stop']);
 }
 

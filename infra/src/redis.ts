@@ -1,32 +1,26 @@
-import { spawnSync } from 'node:child_process';
-import { existsSync, mkdirSync, readFileSync } from 'node:fs';
+import { existsSync, readFileSync, realpathSync } from 'node:fs';
 import { join } from 'node:path';
 import type { Settings } from '@localis/shared';
+import { asUser, serviceDir } from './service-dir';
 import { canConnect } from './wait-for';
 
-function paths(s: Settings) {
-  const dir = join(s.DATA_DIR, 'redis');
-  return { dir, pid: join(dir, 'redis.pid'), log: join(dir, 'redis.log') };
-}
-
-/** Start a private Redis on loopback, without persistence: queues are rebuilt from the outbox. */
+/** Start a private Redis on loopback, as the redis user when we are root, without persistence. */
 export async function startRedis(s: Settings): Promise<void> {
-  const p = paths(s);
-  mkdirSync(p.dir, { recursive: true });
   if (await canConnect(s.REDIS_HOST, s.REDIS_PORT)) return;
-  const r = spawnSync('redis-server', [
+  const dir = serviceDir(s.DATA_DIR, 'redis', 'redis');
+  const r = asUser('redis', '/usr/bin/redis-server', [
     '--bind', s.REDIS_HOST, '--port', String(s.REDIS_PORT), '--save', '', '--appendonly', 'no',
-    '--daemonize', 'yes', '--pidfile', p.pid, '--logfile', p.log, '--dir', p.dir,
-  ], { encoding: 'utf8' });
-  if (r.status !== 0) throw new Error(`redis-server did not start: ${r.stderr || r.stdout}`);
+    '--daemonize', 'yes', '--pidfile', join(dir, 'redis.pid'), '--logfile', join(dir, 'redis.log'), '--dir', dir,
+  ]);
+  if (r.status !== 0) throw new Error(`redis-server did not start: ${r.output}`);
 }
 
 export async function stopRedis(s: Settings): Promise<void> {
-  const p = paths(s);
-  if (!existsSync(p.pid)) return;
-  const pid = Number(readFileSync(p.pid, 'utf8').trim());
+  const link = join(s.DATA_DIR, 'redis');
+  const pidFile = existsSync(link) ? join(realpathSync(link), 'redis.pid') : '';
+  if (!pidFile || !existsSync(pidFile)) return;
   try {
-    process.kill(pid, 'SIGTERM');
+    process.kill(Number(readFileSync(pidFile, 'utf8').trim()), 'SIGTERM');
   } catch {
     return; // already gone
   }
