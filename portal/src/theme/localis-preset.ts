@@ -174,6 +174,7 @@ export const LocalisPreset = definePreset(Aura, {
             danger: solidButton('{red.700}', '{red.800}', '{red.900}', '#ffffff'),
           },
           outlined: {
+            secondary: { hoverBackground: '{surface.100}', activeBackground: '{surface.200}', borderColor: '{surface.400}', color: '{surface.700}' },
             danger: { hoverBackground: '{red.50}', activeBackground: '{red.100}', borderColor: '{red.300}', color: '{red.700}' },
             warn: { hoverBackground: '{amber.50}', activeBackground: '{amber.100}', borderColor: '{amber.300}', color: '{amber.800}' },
           },
@@ -184,7 +185,10 @@ export const LocalisPreset = definePreset(Aura, {
         },
         dark: {
           root: { warn: solidButton('{amber.400}', '{amber.300}', '{amber.200}', '{amber.950}') },
-          outlined: { warn: { hoverBackground: 'rgba(255,255,255,0.04)', activeBackground: 'rgba(255,255,255,0.08)', borderColor: '{amber.700}', color: '{amber.300}' } },
+          outlined: {
+            secondary: { hoverBackground: 'rgba(255,255,255,0.04)', activeBackground: 'rgba(255,255,255,0.08)', borderColor: '{surface.500}', color: '{surface.200}' },
+            warn: { hoverBackground: 'rgba(255,255,255,0.04)', activeBackground: 'rgba(255,255,255,0.08)', borderColor: '{amber.700}', color: '{amber.300}' },
+          },
           text: { warn: { hoverBackground: 'rgba(255,255,255,0.04)', activeBackground: 'rgba(255,255,255,0.08)', color: '{amber.300}' } },
         },
       },

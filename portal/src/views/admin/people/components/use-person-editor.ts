@@ -32,8 +32,10 @@ export function usePersonEditor(source: Ref<Person | null>) {
   const busy = ref<string | null>(null);
   const form = useZodForm(PersonPatch, () => detailsOf(current.value));
 
-  watch(source, (person) => {
+  // A fresher copy of the same person (after a role change) must not wipe unsaved details.
+  watch(source, (person, before) => {
     current.value = person;
+    if (person?.id === before?.id) return;
     roleToGrant.value = null;
     form.reset(detailsOf(person));
   });
