@@ -163,7 +163,7 @@ describe('ApiClient', () => {
     it('should carry the server message when the route does not exist', async () => {
       const e = await failure(new ApiClient({ url, token: demoToken(RESEARCHER) }).get('/no-such-thing'));
       expect(e.exitCode).toBe(1);
-      expect(e.message).toMatch(/There is no GET \/no-such-thing in the Localis API/);
+      expect(e.message).toMatch(/There is no GET \/api\/v1\/no-such-thing in the Localis API/);
     });
   });
 });
