@@ -51,12 +51,12 @@ export async function loadScenario(db: Database, settings: Settings): Promise<Lo
   return report;
 }
 
-/** The seed acts with the office's rights where a rule needs a person (group membership). */
+/** Where a rule needs a person (group membership), the seed acts with the office's rights, as the system. */
 function adminContext() {
   const admin = PEOPLE.find((p) => p.roles.includes('admin'))!;
   return {
     ...SEED_CONTEXT,
-    principal: { personId: admin.id, name: admin.name, email: admin.email, institutionId: admin.institutionId, roles: admin.roles, scopes: [...TOKEN_SCOPES], via: 'session' as const },
+    principal: { personId: admin.id, name: admin.name, email: admin.email, institutionId: admin.institutionId, roles: admin.roles, scopes: [...TOKEN_SCOPES], via: 'system' as const },
   };
 }
 
@@ -81,7 +81,7 @@ async function ensureDemoTokens(services: Services, settings: Settings): Promise
     const person = await services.people.get(adminContext(), p.id);
     const ctx = {
       ...SEED_CONTEXT,
-      principal: { personId: p.id, name: p.name, email: p.email, institutionId: p.institutionId, roles: person.roles, scopes: [...TOKEN_SCOPES], via: 'session' as const },
+      principal: { personId: p.id, name: p.name, email: p.email, institutionId: p.institutionId, roles: person.roles, scopes: [...TOKEN_SCOPES], via: 'system' as const },
     };
     const scopes = TOKEN_SCOPES.filter((s) => s !== 'admin' || person.roles.includes('admin'));
     const { secret } = await services.tokens.create(ctx, { name: 'demo token', scopes, expiresInDays: 366 });

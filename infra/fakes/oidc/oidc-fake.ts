@@ -135,6 +135,9 @@ ${error ? `<p class="err" role="alert">${escapeHtml(error)}</p>` : ''}
 <label for="password">Password</label><input id="password" name="password" type="password" autocomplete="current-password" required>
 <button type="submit" id="submit">Sign in</button></form>`);
 
+  // Browsers ask every site for an icon; answering keeps their consoles free of 404s.
+  app.get('/favicon.ico', (_req, res) => res.status(204).end());
+
   app.get('/interaction/:uid', async (req, res, next) => {
     try {
       const details = await provider.interactionDetails(req, res);

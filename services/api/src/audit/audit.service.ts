@@ -21,7 +21,7 @@ export const auditService = {
   ) {
     return auditRepository.append(
       {
-        actorPersonId: ctx.principal?.personId ?? null,
+        actorPersonId: ctx.principal && ctx.principal.via !== 'system' ? ctx.principal.personId : null,
         via: ctx.principal?.via ?? 'system',
         action,
         targetType: target.type,

@@ -10,7 +10,11 @@ export interface Principal {
   roles: Role[];
   /** What this request may do: all scopes for a session, the token's own for a token. */
   scopes: TokenScope[];
-  via: 'session' | 'token';
+  /**
+   * How the request arrived. `system` is Localis acting on someone's behalf (the demo
+   * scenario, scheduled jobs): the audit log then names no actor, since the person did nothing.
+   */
+  via: 'session' | 'token' | 'system';
   tokenId?: string;
 }
 
