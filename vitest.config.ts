@@ -12,9 +12,10 @@ export default defineConfig({
       // api files run one after another: some change consortium-wide state (the admins).
       { test: { name: 'api', include: ['services/api/**/*.test.ts', 'seeds/**/*.test.ts'], testTimeout: 30_000, hookTimeout: 60_000, fileParallelism: false } },
       { test: { name: 'worker', include: ['services/worker/**/*.test.ts'], testTimeout: 30_000, hookTimeout: 60_000 } },
-      { test: { name: 'cli', include: ['services/cli/**/*.test.ts'], testTimeout: 30_000, hookTimeout: 60_000 } },
-      // The browser suite runs after the others (groupOrder) against the running test stack.
-      { test: { name: 'browser', include: ['portal/e2e/**/*.e2e.test.ts'], testTimeout: 90_000, hookTimeout: 90_000, fileParallelism: false, sequence: { groupOrder: 1 } } },
+      // The cli signs in with the demo admin's token; it waits for the api suite, which changes admins.
+      { test: { name: 'cli', include: ['services/cli/**/*.test.ts'], testTimeout: 30_000, hookTimeout: 60_000, sequence: { groupOrder: 1 } } },
+      // The browser suite runs last (groupOrder) against the running test stack.
+      { test: { name: 'browser', include: ['portal/e2e/**/*.e2e.test.ts'], testTimeout: 90_000, hookTimeout: 90_000, fileParallelism: false, sequence: { groupOrder: 2 } } },
     ],
   },
 });

@@ -37,8 +37,10 @@ function ensureDebianPackages() {
   if (missing.length === 0) return;
   log(`installing Debian packages: ${missing.join(' ')}`);
   const isRoot = process.getuid?.() === 0;
-  const hasSudo = !isRoot && spawnSync('sudo', ['-n', 'true'], { stdio: 'ignore' }).status === 0;
-  if (!isRoot && !hasSudo) {
+  const sudoWithoutPassword = !isRoot && spawnSync('sudo', ['-n', 'true'], { stdio: 'ignore' }).status === 0;
+  // With a terminal, sudo may ask for the password; without one it must not hang.
+  const sudoAsking = !isRoot && !sudoWithoutPassword && process.stdin.isTTY && spawnSync('sudo', ['-V'], { stdio: 'ignore' }).status === 0;
+  if (!isRoot && !sudoWithoutPassword && !sudoAsking) {
     console.error(
       `localis: these Debian packages are missing: ${missing.join(', ')}.\n` +
         `Neither root nor password-less sudo is available to install them. Run:\n` +
@@ -47,17 +49,19 @@ function ensureDebianPackages() {
     );
     process.exit(1);
   }
-  const prefix = isRoot ? [] : ['sudo', '-n'];
+  const prefix = isRoot ? [] : sudoWithoutPassword ? ['sudo', '-n'] : ['sudo'];
+  const asAdmin = (cmd, args, options) => (prefix.length ? run(prefix[0], [...prefix.slice(1), cmd, ...args], options) : run(cmd, args, options));
   const env = { ...process.env, DEBIAN_FRONTEND: 'noninteractive' };
-  const apt = (args) => run(prefix[0] ?? 'apt-get', prefix.length ? [...prefix.slice(1), 'apt-get', ...args] : args, { env });
-  if (!apt(['update']) || !apt(['install', '-y', '--no-install-recommends', ...missing])) {
+  if (!asAdmin('apt-get', ['update'], { env }) || !asAdmin('apt-get', ['install', '-y', '--no-install-recommends', ...missing], { env })) {
     console.error(`localis: apt-get could not install ${missing.join(', ')}; see the messages above.`);
     process.exit(1);
   }
-  // Debian's postinst starts a system-wide cluster and redis on the default ports; Localis runs
-  // its own on loopback under .data/, so stop the system ones to leave nothing running by surprise.
-  if (missing.includes('redis-server')) spawnSync(prefix[0] ?? 'sh', [...(prefix.length ? [...prefix.slice(1), 'sh'] : []), '-c', 'service redis-server stop || true'], { stdio: 'ignore' });
-  if (missing.includes('postgresql-15')) spawnSync(prefix[0] ?? 'sh', [...(prefix.length ? [...prefix.slice(1), 'sh'] : []), '-c', 'service postgresql stop || true'], { stdio: 'ignore' });
+  // Debian's packages start a system-wide PostgreSQL and Redis on the default ports and enable
+  // them at boot. Localis runs its own on loopback under .data/, so turn the system ones off.
+  const services = [missing.includes('redis-server') && 'redis-server', missing.includes('postgresql-15') && 'postgresql'].filter(Boolean);
+  for (const service of services) {
+    asAdmin('sh', ['-c', `(command -v systemctl >/dev/null && systemctl disable --now ${service}) >/dev/null 2>&1 || service ${service} stop >/dev/null 2>&1 || true`], { stdio: 'ignore' });
+  }
 }
 
 function ensureNodeModules() {

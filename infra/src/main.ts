@@ -1,6 +1,5 @@
-import { readFileSync, rmSync, writeFileSync, mkdirSync } from 'node:fs';
+import { mkdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { spawn } from 'node:child_process';
 import { PEOPLE, DEMO_PASSWORD } from '@localis/seeds/scenario';
 import { ProcessGroup } from './processes';
 import { profileEnv, ROOT, settingsOf } from './profile';
@@ -10,6 +9,10 @@ import { summarise } from './test-summary';
 type Mode = 'start' | 'dev' | 'test' | 'stop' | 'bench';
 const mode = (process.argv[2] ?? 'start') as Mode;
 const extraArgs = process.argv.slice(3);
+const TSX = join(ROOT, 'node_modules', '.bin', 'tsx');
+
+/** Thrown between start-up steps once a signal asked us to stop. */
+class Interrupted extends Error {}
 
 async function main(): Promise<number> {
   if (mode === 'stop') {
@@ -30,46 +33,61 @@ async function main(): Promise<number> {
   writeFileSync(join(runDir, 'stack.pid'), String(process.pid));
   const group = new ProcessGroup(runDir);
 
-  let stopping: Promise<void> | undefined;
-  const stop = () =>
-    (stopping ??= (async () => {
-      console.log('\nlocalis: stopping');
-      await group.stopAll();
-      await stopInfrastructure(s);
-      rmSync(join(runDir, 'stack.pid'), { force: true });
-    })());
-  const onSignal = () => void stop().then(() => process.exit(130));
-  process.on('SIGINT', onSignal);
-  process.on('SIGTERM', onSignal);
+  // A signal never stops things itself: it interrupts the main flow, whose `finally` stops
+  // everything once, in order, whatever step we were at (even halfway through start-up).
+  const interrupt = new AbortController();
+  const interrupted = new Promise<never>((_, reject) => interrupt.signal.addEventListener('abort', () => reject(new Interrupted())));
+  interrupted.catch(() => undefined);
+  for (const signal of ['SIGINT', 'SIGTERM', 'SIGHUP'] as const) {
+    process.on(signal, () => {
+      if (!interrupt.signal.aborted) console.log(`\nlocalis: ${signal} received, stopping`);
+      interrupt.abort();
+    });
+  }
+  const step = async <T>(work: () => T | Promise<T>): Promise<T> => {
+    if (interrupt.signal.aborted) throw new Interrupted();
+    return Promise.race([Promise.resolve().then(work), interrupted]);
+  };
 
   try {
-    await startInfrastructure(s, env, group, { freshDatabase: mode === 'test' || mode === 'bench', fakes: mode !== 'bench' });
+    await step(() => startInfrastructure(s, env, group, { freshDatabase: mode === 'test' || mode === 'bench', fakes: mode !== 'bench' }));
     if (mode === 'bench') {
-      return await runChild(join(ROOT, 'node_modules', '.bin', 'tsx'), [join(ROOT, 'infra', 'src', 'bench.ts'), ...extraArgs], env);
+      const bench = group.start('bench', TSX, [join(ROOT, 'infra', 'src', 'bench.ts'), ...extraArgs], env, { inheritOutput: true });
+      return await step(() => bench.exited);
     }
-    runOnce('the demo scenario', 'seeds/src/load.cli.ts', [], env);
+    await step(() => runOnce('the demo scenario', 'seeds/src/load.cli.ts', [], env));
     if (mode === 'dev') {
       const apiPort = s.APP_PORT + 1;
-      await startApplication(s, env, group, { watch: true, apiPort });
+      await step(() => startApplication(s, env, group, { watch: true, apiPort }));
       group.start('portal', 'npm', ['run', 'dev', '-w', '@localis/portal'], { ...env, API_PORT: String(apiPort) });
       announce(s.PUBLIC_URL, s.DATA_DIR, s.MAIL_INBOX_PORT);
-      await group.anyExit();
+      const crashed = await step(() => group.anyExit());
+      console.error(`localis: ${crashed.name} stopped; stopping the rest`);
       return 1;
     }
-    buildPortalIfStale(env);
-    await startApplication(s, env, group, { watch: false });
+    await step(() => buildPortalIfStale(env));
+    await step(() => startApplication(s, env, group, { watch: false }));
     if (mode === 'test') {
-      const code = await runChild('npx', ['vitest', 'run', '--reporter=default', '--reporter=json', `--outputFile.json=${join(s.DATA_DIR, 'vitest.json')}`, ...extraArgs], env);
-      const summary = summarise(join(s.DATA_DIR, 'vitest.json'));
+      const report = join(s.DATA_DIR, 'vitest.json');
+      rmSync(report, { force: true });
+      const vitest = group.start('vitest', join(ROOT, 'node_modules', '.bin', 'vitest'), ['run', '--reporter=default', '--reporter=json', `--outputFile.json=${report}`, ...extraArgs], env, { inheritOutput: true });
+      const code = await step(() => vitest.exited);
+      const summary = summarise(report);
       console.log(`tests: ${summary.passed} passed, ${summary.failed} failed`);
       return code !== 0 || summary.failed > 0 || summary.passed === 0 ? 1 : 0;
     }
     announce(s.PUBLIC_URL, s.DATA_DIR, s.MAIL_INBOX_PORT);
-    const crashed = await group.anyExit();
+    const crashed = await step(() => group.anyExit());
     console.error(`localis: ${crashed.name} stopped unexpectedly; stopping the rest`);
     return 1;
+  } catch (e) {
+    if (e instanceof Interrupted) return 130;
+    throw e;
   } finally {
-    await stop();
+    console.log('localis: stopping');
+    await group.stopAll();
+    await stopInfrastructure(s);
+    rmSync(join(runDir, 'stack.pid'), { force: true });
   }
 }
 
@@ -82,13 +100,6 @@ function runningStack(pidFile: string): number | null {
   } catch {
     return null;
   }
-}
-
-function runChild(cmd: string, args: string[], env: Record<string, string>): Promise<number> {
-  return new Promise((resolve) => {
-    const child = spawn(cmd, args, { cwd: ROOT, env, stdio: 'inherit' });
-    child.on('exit', (code) => resolve(code ?? 1));
-  });
 }
 
 function announce(url: string, dataDir: string, inboxPort: number) {
@@ -114,7 +125,7 @@ Stop with Ctrl-C, or \`npm run stop\` from another shell.
 
 main().then(
   (code) => process.exit(code),
-  async (e) => {
+  (e) => {
     console.error(`localis: ${(e as Error).message}`);
     process.exit(1);
   },

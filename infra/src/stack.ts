@@ -92,7 +92,7 @@ export async function stopFromOutside(s: Settings): Promise<void> {
   if (existsSync(runDir)) {
     for (const f of readdirSync(runDir).filter((n) => n.endsWith('.pid') && n !== 'stack.pid')) {
       try {
-        process.kill(Number(readFileSync(join(runDir, f), 'utf8')), 'SIGTERM');
+        process.kill(-Number(readFileSync(join(runDir, f), 'utf8')), 'SIGTERM'); // its process group
       } catch {
         // already gone
       }

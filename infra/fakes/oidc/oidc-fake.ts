@@ -83,7 +83,9 @@ export async function startOidcFake(opts: OidcFakeOptions): Promise<{ server: Se
     findAccount: async (_ctx, sub) => {
       const account = accounts.get(sub);
       if (!account) return undefined;
-      return { accountId: sub, claims: async () => ({ sub, email: account.email, email_verified: true, name: account.name }) };
+      // Test addresses starting with "unverified" stand for accounts whose e-mail the provider never checked.
+      const verified = !account.email.startsWith('unverified');
+      return { accountId: sub, claims: async () => ({ sub, email: account.email, email_verified: verified, name: account.name }) };
     },
     interactions: { url: (_ctx, interaction) => `/interaction/${interaction.uid}` },
     cookies: {

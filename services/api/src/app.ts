@@ -67,8 +67,8 @@ export function createApp(deps: AppDeps) {
   const secure = s.PUBLIC_URL.startsWith('https:');
   const app = express();
   app.disable('x-powered-by');
-  // The api runs behind a proxy on loopback in production set-ups; trust only that hop.
-  app.set('trust proxy', 'loopback');
+  // Believe X-Forwarded-For only from a reverse proxy on this machine, and only when configured.
+  app.set('trust proxy', s.TRUST_PROXY === 'loopback' ? 'loopback' : false);
 
   app.use(
     pinoHttp({
@@ -117,10 +117,11 @@ export function createApp(deps: AppDeps) {
   );
 
   const authController = createAuthController(s, services.signIn, logger);
+  const limits = createRateLimits(deps.redis, s);
   app.use(...authController.passportMiddleware);
+  app.use(limits.failedTokens);
   app.use(authenticate(services.tokens));
 
-  const limits = createRateLimits(deps.redis, s);
   const routes = buildRoutes(deps, authController);
   for (const route of routes) {
     const chain = [

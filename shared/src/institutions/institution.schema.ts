@@ -24,17 +24,20 @@ export const Institution = z
   .meta({ id: 'Institution' });
 export type Institution = z.infer<typeof Institution>;
 
-export const InstitutionInput = z
-  .object({
-    name: z.string().trim().min(2, 'name needs at least 2 characters').max(200),
-    kind: InstitutionKind,
-    country: CountryCode,
-    billingEmail: z.email('billing e-mail must be an e-mail address').nullable().default(null),
-  })
-  .meta({ id: 'InstitutionInput' });
+/** The editable fields, without defaults: a patch must never fill in what it did not send. */
+const InstitutionFields = z.object({
+  name: z.string().trim().min(2, 'name needs at least 2 characters').max(200),
+  kind: InstitutionKind,
+  country: CountryCode,
+  billingEmail: z.email('billing e-mail must be an e-mail address').nullable(),
+});
+
+export const InstitutionInput = InstitutionFields.extend({ billingEmail: InstitutionFields.shape.billingEmail.default(null) }).meta({
+  id: 'InstitutionInput',
+});
 export type InstitutionInput = z.infer<typeof InstitutionInput>;
 
-export const InstitutionPatch = InstitutionInput.partial().meta({ id: 'InstitutionPatch' });
+export const InstitutionPatch = InstitutionFields.partial().meta({ id: 'InstitutionPatch' });
 export type InstitutionPatch = z.infer<typeof InstitutionPatch>;
 
 export const InstitutionListQuery = listQuery(['name', 'kind', 'country', 'createdAt'], {

@@ -21,6 +21,11 @@ describe('settings', () => {
   });
 
   describe('validation', () => {
+    it('should refuse the shipped secrets when the address is public https', () => {
+      expect(() => loadSettings({ PUBLIC_URL: 'https://localis.example.org' })).toThrow(/SESSION_SECRET, OIDC_CLIENT_SECRET: set your own secret/);
+      expect(loadSettings({ PUBLIC_URL: 'https://localis.example.org', SESSION_SECRET: 'a'.repeat(32), OIDC_CLIENT_SECRET: 'b'.repeat(32) }).PUBLIC_URL).toBe('https://localis.example.org');
+    });
+
     it('should refuse to bind a service beyond loopback, saying why', () => {
       expect(() => loadSettings({ APP_HOST: '0.0.0.0' })).toThrow(/loopback only/);
     });

@@ -53,6 +53,9 @@ export const Settings = z.object({
   SESSION_HOURS: z.coerce.number().min(1).max(24 * 30).default(12),
   SIGNIN_RATE_PER_MINUTE: z.coerce.number().int().min(1).default(30),
   TOKEN_RATE_PER_MINUTE: z.coerce.number().int().min(1).default(600),
+  FAILED_TOKEN_RATE_PER_MINUTE: z.coerce.number().int().min(1).default(20),
+  /** `loopback` when a reverse proxy on this machine forwards requests (then X-Forwarded-For is believed). */
+  TRUST_PROXY: z.enum(['none', 'loopback']).default('none'),
   BODY_LIMIT: z.string().default('1mb'),
 });
 export type Settings = z.infer<typeof Settings>;
@@ -82,7 +85,14 @@ export function loadSettings(env: Record<string, string | undefined>): Settings 
     const lines = parsed.error.issues.map((i) => `  ${i.path.join('.')}: ${i.message}`);
     throw new Error(`Localis settings are not valid:\n${lines.join('\n')}`);
   }
-  return parsed.data;
+  const s = parsed.data;
+  // The shipped secrets are for loopback only; a public https address must bring its own.
+  if (s.PUBLIC_URL.startsWith('https:')) {
+    const defaults = Settings.parse({});
+    const kept = (['SESSION_SECRET', 'OIDC_CLIENT_SECRET'] as const).filter((k) => s[k] === defaults[k]);
+    if (kept.length) throw new Error(`Localis settings are not valid:\n  ${kept.join(', ')}: set your own secret when PUBLIC_URL is https`);
+  }
+  return s;
 }
 
 export function databaseUrl(s: Pick<Settings, 'PG_HOST' | 'PG_PORT' | 'PG_DATABASE' | 'PG_USER' | 'PG_PASSWORD'>): string {

@@ -1,10 +1,10 @@
 import type { NextFunction, Request, Response } from 'express';
 import passport from 'passport';
+import * as client from 'openid-client';
 import type { Logger } from 'pino';
 import { SafeRedirect, type SessionInfo, type Settings, type SignOutResult } from '@localis/shared';
 import { contextOf } from '../http/principal';
 import { generateCsrfToken } from '../http/csrf';
-import { auditService } from '../audit/audit.service';
 import { discoverProvider, LocalisOidcStrategy, type OidcHandle } from './oidc-client';
 import { IdentityClaims, type SignInService } from './sign-in.service';
 
@@ -31,7 +31,12 @@ export function createAuthController(s: Settings, signIn: SignInService, logger:
           { config: handle.config, scope: 'openid email profile', callbackURL: new URL(CALLBACK_PATH, s.PUBLIC_URL).href, name: 'oidc', passReqToCallback: true },
           async (req: Request, tokens, done) => {
             try {
-              const claims = IdentityClaims.parse(tokens.claims());
+              let raw: Record<string, unknown> = { ...tokens.claims() };
+              // Providers may keep e-mail claims out of the ID token; then ask userinfo.
+              if (raw.email === undefined || raw.email_verified === undefined) {
+                raw = { ...raw, ...(await client.fetchUserInfo(handle.config, tokens.access_token, String(raw.sub))) };
+              }
+              const claims = IdentityClaims.parse(raw);
               const outcome = await signIn.signIn(claims, contextOf(req));
               if (outcome.kind !== 'signed-in') return done(null, false, outcome);
               done(null, { personId: outcome.personId, idToken: tokens.id_token } satisfies SessionUser);
@@ -54,10 +59,12 @@ export function createAuthController(s: Settings, signIn: SignInService, logger:
 
     async session(req: Request, res: Response) {
       const p = req.principal;
+      const signedIn = !!p && p.via === 'session';
       const body: SessionInfo = {
-        signedIn: !!p && p.via === 'session',
-        person: p && p.via === 'session' ? { id: p.personId, name: p.name, email: p.email, institutionId: p.institutionId, roles: p.roles } : null,
-        csrfToken: generateCsrfToken(req),
+        signedIn,
+        person: signedIn ? { id: p.personId, name: p.name, email: p.email, institutionId: p.institutionId, roles: p.roles } : null,
+        // Only a signed-in session can write; anonymous visitors get no token, and so no stored session.
+        csrfToken: signedIn ? generateCsrfToken(req) : '',
       };
       res.set('Cache-Control', 'no-store').json(body);
     },
@@ -103,7 +110,7 @@ export function createAuthController(s: Settings, signIn: SignInService, logger:
       const user = req.user as SessionUser | undefined;
       const ctx = contextOf(req);
       const handle = await ready().catch(() => undefined);
-      if (ctx.principal) await auditService.record(ctx, 'session.signed-out', { type: 'person', id: ctx.principal.personId });
+      await signIn.signOut(ctx);
       req.logout((err) => {
         if (err) return next(err);
         req.session.destroy(() => {

@@ -21,14 +21,15 @@ export type SignInOutcome =
 export function createSignInService(db: Database) {
   return {
     /**
-     * Match the provider's account to a person: by subject once linked; the first time by a
-     * verified e-mail the office entered, which links the two for good.
+     * Match the provider's account to a person: by subject once linked; the first time by an
+     * e-mail the office entered, and only when the provider says it verified that address,
+     * which links the two for good (else anyone registering that address could take it over).
      */
     async signIn(claims: IdentityClaims, ctx: RequestContext): Promise<SignInOutcome> {
       return db.transaction(async (tx) => {
         let person = await peopleRepository.findRecord({ oidcSubject: claims.sub }, tx);
         let linkedNow = false;
-        if (!person && claims.email_verified !== false) {
+        if (!person && claims.email_verified === true) {
           const byEmail = await peopleRepository.findRecord({ email: claims.email }, tx);
           if (byEmail && byEmail.oidcSubject === null) {
             await peopleRepository.linkSubject(byEmail.id, claims.sub, tx);
@@ -50,6 +51,11 @@ export function createSignInService(db: Database) {
         await auditService.record(actor, 'session.signed-in', { type: 'person', id: person.id }, {}, tx);
         return { kind: 'signed-in', personId: person.id };
       });
+    },
+
+    /** Written before the session ends, so the entry still knows who signed out. */
+    async signOut(ctx: RequestContext): Promise<void> {
+      if (ctx.principal) await auditService.record(ctx, 'session.signed-out', { type: 'person', id: ctx.principal.personId });
     },
   };
 }

@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { OUTSIDER, PEOPLE } from '@localis/seeds/scenario';
-import { BrowserSession, createPerson, startTestApp, type TestApp } from '../../test/harness';
+import { BrowserSession, createPerson, startTestApp, SYSTEM, type TestApp } from '../../test/harness';
 
 let t: TestApp;
 beforeAll(async () => {
@@ -39,7 +39,8 @@ describe('sign-in', () => {
     it('should rotate the session id at sign-in when a session existed before', async () => {
       const person = await createPerson(t, { roles: ['researcher'], label: 'rotate' });
       const browser = new BrowserSession(t.url);
-      await browser.refreshSession();
+      // Starting sign-in makes a session (it holds the PKCE verifier, state and nonce).
+      await browser.fetch(`${t.url}/api/v1/auth/login`);
       const before = browser.cookieHeader.match(/localis\.sid=([^;]+)/)?.[1];
       expect(before).toBeTruthy();
       await browser.signIn(person.email);
@@ -54,6 +55,14 @@ describe('sign-in', () => {
       expect(landed.pathname).toBe('/not-a-member');
       expect(landed.searchParams.get('email')).toBe(OUTSIDER.email);
       expect((await browser.refreshSession()).signedIn).toBe(false);
+    });
+
+    it('should not link an account when the provider has not verified the e-mail', async () => {
+      const person = await t.services.people.create(SYSTEM, { name: 'Unverified', email: `unverified-${Date.now()}@test.example`, institutionId: null, roles: ['researcher'] });
+      const landed = await new BrowserSession(t.url).signIn(person.email);
+      expect(landed.pathname).toBe('/not-a-member');
+      const after = await t.services.people.get({ ...SYSTEM, principal: { personId: person.id, name: '', email: '', institutionId: null, roles: [], scopes: [], via: 'session' } }, person.id);
+      expect(after.linked).toBe(false);
     });
 
     it('should refuse a deactivated account when it signs in', async () => {
@@ -73,12 +82,11 @@ describe('sign-in', () => {
 
     it('should never send the browser to another site when the redirect is foreign', async () => {
       const person = PEOPLE.find((p) => p.roles.includes('researcher'))!;
-      const browser = new BrowserSession(t.url);
-      const res = await browser.fetch(`${t.url}/api/v1/auth/login?redirect=${encodeURIComponent('//evil.example/x')}`);
-      expect(res.status).toBe(302);
-      const landed = await browser.signIn(person.email, { redirect: 'https://evil.example/' });
-      expect(landed.origin).toBe(t.url);
-      expect(landed.pathname).toBe('/');
+      for (const foreign of ['//evil.example/x', 'https://evil.example/', '/\\evil.example']) {
+        const landed = await new BrowserSession(t.url).signIn(person.email, { redirect: foreign });
+        expect(landed.origin, foreign).toBe(t.url);
+        expect(landed.pathname, foreign).toBe('/');
+      }
     });
   });
 

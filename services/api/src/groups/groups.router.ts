@@ -1,21 +1,14 @@
-import type { Request, Response } from 'express';
 import { GroupMemberInput, IdParams, ResearchGroupDetail, ResearchGroupInput, ResearchGroupListQuery, ResearchGroupPage } from '@localis/shared';
 import { z } from 'zod';
-import { contextOf } from '../http/principal';
 import { access, defineRoutes } from '../http/route-registry';
 import type { GroupsService } from './groups.service';
+import { createGroupsController } from './groups.controller';
 
 const MemberParams = IdParams.extend({ personId: z.uuid('the person id in the address is not a valid UUID') });
 
 export function groupsRoutes(service: GroupsService) {
-  const c = {
-    list: async (req: Request, res: Response) => res.json(await service.list(contextOf(req), req.valid.query)),
-    get: async (req: Request, res: Response) => res.json(await service.get(contextOf(req), req.valid.params.id)),
-    create: async (req: Request, res: Response) => res.status(201).json(await service.create(contextOf(req), req.valid.body)),
-    addMember: async (req: Request, res: Response) => res.json(await service.addMember(contextOf(req), req.valid.params.id, req.valid.body.personId)),
-    removeMember: async (req: Request, res: Response) =>
-      res.json(await service.removeMember(contextOf(req), req.valid.params.id, req.valid.params.personId)),
-  };
+  const c = createGroupsController(service);
+
   return defineRoutes([
     {
       method: 'get', path: '/groups', tag: 'groups', summary: 'Research groups (mine=true: yours)',

@@ -3,6 +3,7 @@ import { errors, type ResearchGroupInput, type ResearchGroupListQuery } from '@l
 import type { Database } from '../db';
 import type { RequestContext } from '../http/principal';
 import { auditService } from '../audit/audit.service';
+import { actsAsAdmin } from '../http/acts-as-admin';
 import { institutionsRepository } from '../institutions/institutions.repository';
 import { peopleRepository } from '../people/people.repository';
 import { groupsRepository } from './groups.repository';
@@ -11,7 +12,7 @@ export function createGroupsService(db: Database) {
   /** Admins manage every group; a PI manages their own group's members. */
   function assertCanManage(ctx: RequestContext, group: { piPersonId: string }) {
     const p = ctx.principal!;
-    if (p.roles.includes('admin')) return;
+    if (actsAsAdmin(p)) return;
     if (group.piPersonId === p.personId && p.roles.includes('pi')) return;
     throw errors.forbidden("Only the group's PI or the consortium office can change its members.");
   }

@@ -1,10 +1,13 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { BrowserSession, createInstitution, createPerson, startTestApp, SYSTEM, type TestApp } from '../../test/harness';
+import { BrowserSession, createInstitution, createPerson, startTestApp, SYSTEM, tokenFor, type TestApp } from '../../test/harness';
 import { ACTORS, MATRIX, type Actor, type Fixtures } from './authorization-matrix';
 import { fullPath } from './route-registry';
 
 let t: TestApp;
 let fixtures: Fixtures;
+/** The admin's API tokens: one that may only read, one with every scope. */
+let adminReadToken: string;
+let adminFullToken: string;
 const emails = new Map<Actor, string>();
 const sessions = new Map<Actor, BrowserSession>();
 
@@ -23,6 +26,8 @@ beforeAll(async () => {
   const groupA = await t.services.groups.create(SYSTEM, { name: 'Matrix Group A', institutionId: instA.id, piPersonId: pi.id });
   await t.services.groups.addMember({ ...SYSTEM, principal: { personId: pi.id, name: pi.name, email: pi.email, institutionId: instA.id, roles: pi.roles, scopes: [], via: 'session' } }, groupA.id, researcher.id);
   await t.services.groups.create(SYSTEM, { name: 'Matrix Group B', institutionId: instB.id, piPersonId: otherPi.id });
+  adminReadToken = await tokenFor(t, admin, ['read']);
+  adminFullToken = await tokenFor(t, admin);
   const byActor: Record<Exclude<Actor, 'anonymous'>, typeof researcher> = { researcher, pi, committee, admin, billing, otherGroupPi: otherPi };
   for (const [actor, person] of Object.entries(byActor)) emails.set(actor as Actor, person.email);
   await Promise.all(
@@ -76,5 +81,39 @@ describe('authorization matrix', () => {
       }
       expect(got).toEqual(row.expect);
     });
+  });
+
+  describe('API token scopes', () => {
+    const viaToken = MATRIX.filter((row) => !row.freshSession && row.expect.anonymous !== row.expect.admin);
+    it.each(viaToken.map((row) => [`${row.method} ${row.route}`, row] as const))(
+      "should answer %s with an admin's read-only token as the admin for reads and 403 for writes",
+      async (_name, row) => {
+        if (row.before) await row.before(fixtures);
+        const path = await row.path(fixtures, 'admin');
+        const body = row.body?.(fixtures);
+        const res = await fetch(t.url + path, {
+          method: row.method,
+          headers: { authorization: `Bearer ${adminReadToken}`, ...(body ? { 'content-type': 'application/json' } : {}) },
+          body: body ? JSON.stringify(body) : undefined,
+        });
+        expect(res.status).toBe(row.method === 'GET' ? row.expect.admin : 403);
+      },
+    );
+
+    it.each(viaToken.filter((r) => r.method !== 'GET').map((row) => [`${row.method} ${row.route}`, row] as const))(
+      "should answer %s with an admin's full token as the admin in the browser",
+      async (_name, row) => {
+        if (row.before) await row.before(fixtures);
+        const path = await row.path(fixtures, 'admin');
+        const body = row.body?.(fixtures);
+        const res = await fetch(t.url + path, {
+          method: row.method,
+          headers: { authorization: `Bearer ${adminFullToken}`, ...(body ? { 'content-type': 'application/json' } : {}) },
+          body: body ? JSON.stringify(body) : undefined,
+        });
+        // Tokens cannot make tokens; everything else behaves as in the browser.
+        expect(res.status).toBe(row.route === '/api/v1/me/tokens' ? 403 : row.expect.admin);
+      },
+    );
   });
 });

@@ -138,9 +138,9 @@ describe('bad input', () => {
 
   describe('rate limits', () => {
     it('should answer 429 with Retry-After when sign-in is attempted too often', async () => {
-      const limited = await startTestApp({ SIGNIN_RATE_PER_MINUTE: '3' });
+      const limited = await startTestApp({ SIGNIN_RATE_PER_MINUTE: '3', TRUST_PROXY: 'loopback' });
       try {
-        // trust proxy is loopback: a forwarded address gives this test its own counter.
+        // As behind a proxy on this machine: a forwarded address gives this test its own counter.
         const headers = { 'x-forwarded-for': `198.51.100.${Math.floor(Math.random() * 250) + 1}` };
         const statuses: number[] = [];
         for (let i = 0; i < 4; i++) statuses.push((await fetch(`${limited.url}/api/v1/auth/login`, { headers, redirect: 'manual' })).status);
@@ -148,6 +148,31 @@ describe('bad input', () => {
         const res = await fetch(`${limited.url}/api/v1/auth/login`, { headers, redirect: 'manual' });
         expect(res.headers.get('retry-after')).toBe('60');
         expect((await errorOf(res)).code).toBe('rate_limited');
+      } finally {
+        await limited.close();
+      }
+    });
+
+    it('should answer 429 when one address keeps presenting wrong API tokens', async () => {
+      const limited = await startTestApp({ FAILED_TOKEN_RATE_PER_MINUTE: '3', TRUST_PROXY: 'loopback' });
+      try {
+        const headers = { 'x-forwarded-for': `203.0.113.${Math.floor(Math.random() * 250) + 1}`, authorization: 'Bearer lcs_guess' };
+        const statuses: number[] = [];
+        for (let i = 0; i < 4; i++) statuses.push((await fetch(`${limited.url}/api/v1/me`, { headers })).status);
+        expect(statuses).toEqual([401, 401, 401, 429]);
+      } finally {
+        await limited.close();
+      }
+    });
+
+    it('should not count good tokens against the wrong-token limit', async () => {
+      const limited = await startTestApp({ FAILED_TOKEN_RATE_PER_MINUTE: '2', TRUST_PROXY: 'loopback' });
+      try {
+        const token = await tokenFor(limited, researcher, ['read']);
+        const headers = { 'x-forwarded-for': `192.0.2.${Math.floor(Math.random() * 250) + 1}`, authorization: `Bearer ${token}` };
+        const statuses: number[] = [];
+        for (let i = 0; i < 4; i++) statuses.push((await fetch(`${limited.url}/api/v1/me`, { headers })).status);
+        expect(statuses).toEqual([200, 200, 200, 200]);
       } finally {
         await limited.close();
       }
@@ -169,7 +194,10 @@ describe('bad input', () => {
   describe('security headers', () => {
     it('should set a strict content security policy and an httpOnly SameSite=Lax session cookie', async () => {
       const fresh = new BrowserSession(t.url);
-      const res = await fresh.fetch(`${t.url}/api/v1/session`);
+      const anonymous = await fresh.fetch(`${t.url}/api/v1/session`);
+      // Anonymous visitors get no stored session; starting sign-in makes one.
+      expect(anonymous.headers.getSetCookie()).toEqual([]);
+      const res = await fresh.fetch(`${t.url}/api/v1/auth/login`);
       const csp = res.headers.get('content-security-policy') ?? '';
       expect(csp).toContain("default-src 'self'");
       expect(csp).toContain("script-src 'self'");

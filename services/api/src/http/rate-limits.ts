@@ -12,8 +12,17 @@ function store(redis: Redis, prefix: string) {
   });
 }
 
-function limiter(redis: Redis, prefix: string, perMinute: number, key: (req: Request) => string, skip?: (req: Request) => boolean): RateLimitRequestHandler {
+function limiter(
+  redis: Redis,
+  prefix: string,
+  perMinute: number,
+  key: (req: Request) => string,
+  skip?: (req: Request) => boolean,
+  countOnlyFailures = false,
+): RateLimitRequestHandler {
   return rateLimit({
+    skipSuccessfulRequests: countOnlyFailures,
+    requestWasSuccessful: (_req, res) => res.statusCode !== 401,
     windowMs: 60_000,
     limit: perMinute,
     standardHeaders: 'draft-8',
@@ -29,8 +38,10 @@ function limiter(redis: Redis, prefix: string, perMinute: number, key: (req: Req
   });
 }
 
-export function createRateLimits(redis: Redis, s: Pick<Settings, 'SIGNIN_RATE_PER_MINUTE' | 'TOKEN_RATE_PER_MINUTE'>) {
+export function createRateLimits(redis: Redis, s: Pick<Settings, 'SIGNIN_RATE_PER_MINUTE' | 'TOKEN_RATE_PER_MINUTE' | 'FAILED_TOKEN_RATE_PER_MINUTE'>) {
   return {
+    /** Wrong API tokens, per client address: guessing costs a database lookup each. */
+    failedTokens: limiter(redis, 'badtoken', s.FAILED_TOKEN_RATE_PER_MINUTE, (req) => `ip:${ipKeyGenerator(req.ip ?? 'unknown')}`, (req) => req.get('authorization') === undefined, true),
     /** Sign-in pages, per client address. */
     signIn: limiter(redis, 'signin', s.SIGNIN_RATE_PER_MINUTE, (req) => `ip:${ipKeyGenerator(req.ip ?? 'unknown')}`),
     /** Requests made with an API token, per token. */

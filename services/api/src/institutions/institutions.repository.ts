@@ -1,16 +1,9 @@
-import { Op, UniqueConstraintError, type Transaction, type WhereOptions } from 'sequelize';
-import { errors, parseSort, type Institution as InstitutionDto, type InstitutionInput, type InstitutionListQuery, type InstitutionPatch, type Page } from '@localis/shared';
+import { Op, type Transaction, type WhereOptions } from 'sequelize';
+import { parseSort, type Institution as InstitutionDto, type InstitutionInput, type InstitutionListQuery, type InstitutionPatch, type Page } from '@localis/shared';
 import { Institution } from '../db/models';
 
 function toDto(i: Institution): InstitutionDto {
   return { id: i.id, name: i.name, kind: i.kind, country: i.country, billingEmail: i.billingEmail, createdAt: i.createdAt.toISOString() };
-}
-
-function uniqueName<T>(promise: Promise<T>, name?: string): Promise<T> {
-  return promise.catch((e) => {
-    if (e instanceof UniqueConstraintError) throw errors.conflict(`An institution named "${name}" already exists.`);
-    throw e;
-  });
 }
 
 export const institutionsRepository = {
@@ -29,10 +22,10 @@ export const institutionsRepository = {
   },
 
   async create(input: InstitutionInput & { id?: string }, tx?: Transaction): Promise<InstitutionDto> {
-    return toDto(await uniqueName(Institution.create(input, { transaction: tx }), input.name));
+    return toDto(await Institution.create(input, { transaction: tx }));
   },
 
   async update(id: string, patch: InstitutionPatch, tx?: Transaction): Promise<void> {
-    await uniqueName(Institution.update(patch, { where: { id }, transaction: tx }), patch.name);
+    await Institution.update(patch, { where: { id }, transaction: tx });
   },
 };

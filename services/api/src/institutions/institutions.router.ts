@@ -1,19 +1,13 @@
-import type { Request, Response } from 'express';
 import { IdParams, Institution, InstitutionInput, InstitutionListQuery, InstitutionPage, InstitutionPatch } from '@localis/shared';
-import { contextOf } from '../http/principal';
 import { access, defineRoutes } from '../http/route-registry';
 import type { InstitutionsService } from './institutions.service';
+import { createInstitutionsController } from './institutions.controller';
 
 export function institutionsRoutes(service: InstitutionsService) {
-  const c = {
-    list: async (req: Request, res: Response) => res.json(await service.list(req.valid.query)),
-    get: async (req: Request, res: Response) => res.json(await service.get(req.valid.params.id)),
-    create: async (req: Request, res: Response) => res.status(201).json(await service.create(contextOf(req), req.valid.body)),
-    update: async (req: Request, res: Response) => res.json(await service.update(contextOf(req), req.valid.params.id, req.valid.body)),
-  };
+  const c = createInstitutionsController(service);
   return defineRoutes([
     {
-      method: 'get', path: '/institutions', tag: 'institutions', summary: 'Member and partner institutions',
+      method: 'get', path: '/institutions', tag: 'institutions', summary: 'Member and partner institutions (billing e-mails only for admins and the own billing contacts)',
       access: access.read(), request: { query: InstitutionListQuery }, responses: { 200: { description: 'A page', schema: InstitutionPage } }, handler: c.list,
     },
     {

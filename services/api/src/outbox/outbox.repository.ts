@@ -1,6 +1,9 @@
 import { Op, type Transaction } from 'sequelize';
 import { OutboxMessage } from '../db/models';
 
+/** After this many failed hand-overs a message is parked (kept, with its last error) for a person to look at. */
+export const MAX_DISPATCH_ATTEMPTS = 10;
+
 export interface PendingMessage {
   id: string;
   kind: string;
@@ -21,7 +24,7 @@ export const outboxRepository = {
    */
   async claimPending(limit: number, tx: Transaction): Promise<PendingMessage[]> {
     const rows = await OutboxMessage.findAll({
-      where: { dispatchedAt: { [Op.is]: null } },
+      where: { dispatchedAt: { [Op.is]: null }, attempts: { [Op.lt]: MAX_DISPATCH_ATTEMPTS } },
       order: [['id', 'ASC']],
       limit,
       lock: tx.LOCK.UPDATE,
@@ -35,8 +38,10 @@ export const outboxRepository = {
     if (ids.length) await OutboxMessage.update({ dispatchedAt: new Date() }, { where: { id: ids }, transaction: tx });
   },
 
-  async markFailed(id: string, error: string, tx: Transaction): Promise<void> {
-    await OutboxMessage.increment('attempts', { where: { id }, transaction: tx });
+  /** `permanent` parks the message at once (it can never succeed, e.g. an unknown kind). */
+  async markFailed(id: string, error: string, tx: Transaction, permanent = false): Promise<void> {
+    if (permanent) await OutboxMessage.update({ attempts: MAX_DISPATCH_ATTEMPTS }, { where: { id }, transaction: tx });
+    else await OutboxMessage.increment('attempts', { where: { id }, transaction: tx });
     await OutboxMessage.update({ lastError: error.slice(0, 1000) }, { where: { id }, transaction: tx });
   },
 

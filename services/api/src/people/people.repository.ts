@@ -111,6 +111,11 @@ export const peopleRepository = {
     return (await RoleGrant.destroy({ where: { personId, role }, transaction: tx })) > 0;
   },
 
+  /** One lock for every change that can remove admin rights (see the people service). */
+  async lockAdminRights(tx: Transaction): Promise<void> {
+    await Person.sequelize!.query(`SELECT pg_advisory_xact_lock(hashtext('localis:admin-role'))`, { transaction: tx });
+  },
+
   async countWithRole(role: Role, tx?: Transaction): Promise<number> {
     return RoleGrant.count({
       where: { role },

@@ -14,10 +14,12 @@ export function createPeopleService(db: Database, publicUrl: string) {
     }
   }
 
-  /** The consortium must always keep one active admin, or nobody could grant roles again. */
+  /**
+   * The consortium must always keep one active admin, or nobody could grant roles again.
+   * Callers take `lockAdminRights` first, before any row lock, so two admins removing each
+   * other are serialised (and cannot deadlock).
+   */
   async function keepAnAdmin(personId: string, tx: Parameters<typeof peopleRepository.countWithRole>[1]) {
-    // Serialise changes to admin rights, so two admins removing each other cannot both succeed.
-    await db.sequelize.query(`SELECT pg_advisory_xact_lock(hashtext('localis:admin-role'))`, { transaction: tx });
     const person = await peopleRepository.findRecord({ id: personId }, tx);
     if (person?.active && person.roles.includes('admin') && (await peopleRepository.countWithRole('admin', tx)) <= 1) {
       throw errors.conflict('This is the last active admin. Grant the admin role to someone else first.');
@@ -64,6 +66,7 @@ export function createPeopleService(db: Database, publicUrl: string) {
 
     update(ctx: RequestContext, id: string, patch: PersonPatch) {
       return db.transaction(async (tx) => {
+        if (patch.active === false) await peopleRepository.lockAdminRights(tx);
         const before = await peopleRepository.findDto(id, tx);
         if (!before) throw errors.notFound('The person');
         await requireInstitution(patch.institutionId, tx);
@@ -97,6 +100,7 @@ export function createPeopleService(db: Database, publicUrl: string) {
 
     revokeRole(ctx: RequestContext, id: string, role: Role) {
       return db.transaction(async (tx) => {
+        if (role === 'admin') await peopleRepository.lockAdminRights(tx);
         const person = await peopleRepository.findRecord({ id }, tx);
         if (!person) throw errors.notFound('The person');
         if (role === 'admin') await keepAnAdmin(id, tx);

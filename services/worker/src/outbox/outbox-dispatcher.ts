@@ -34,7 +34,7 @@ export function createOutboxDispatcher(db: Database, redis: Redis, logger: Logge
       for (const m of pending) {
         const queue = ROUTES[m.kind];
         if (!queue) {
-          await outboxRepository.markFailed(m.id, `no queue for outbox kind "${m.kind}"`, tx);
+          await outboxRepository.markFailed(m.id, `no queue for outbox kind "${m.kind}"`, tx, true);
           continue;
         }
         await queueFor(queue).add(m.kind, m.payload, { ...JOB_OPTIONS, jobId: `outbox-${m.id}` });
