@@ -1,6 +1,7 @@
 import { mkdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { PEOPLE, DEMO_PASSWORD } from '@localis/seeds/scenario';
+import { databasePassword } from './postgres';
 import { ProcessGroup } from './processes';
 import { profileEnv, ROOT, settingsOf } from './profile';
 import { buildPortalIfStale, runOnce, startApplication, startInfrastructure, stopFromOutside, stopInfrastructure } from './stack';
@@ -22,6 +23,7 @@ async function main(): Promise<number> {
   }
 
   const env = profileEnv(mode);
+  env.PG_PASSWORD = databasePassword(settingsOf(env));
   const s = settingsOf(env);
   const runDir = join(s.DATA_DIR, 'run');
   mkdirSync(runDir, { recursive: true });
