@@ -97,7 +97,9 @@ export async function request<T>(method: string, path: string, options: RequestO
   if (response.status === 204) return undefined as T;
   try {
     return (await response.json()) as T;
-  } catch {
+  } catch (cause) {
+    // A newer request may abort this one while its body is still being read: not a bad answer.
+    if (cause instanceof DOMException && cause.name === 'AbortError') throw cause;
     throw new ApiError(response.status, 'malformed', 'The server sent an answer Localis could not read.');
   }
 }

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { daysUntil, formatCount, formatDaysFromNow, formatLocalDate, formatLocalDateTime, formatUtc } from './formatters';
+import { daysUntil, formatCount, formatDaysFromNow, formatLocalDate, formatLocalDateTime, formatUtc, shortId } from './formatters';
 
 const berlin = { locale: 'en-GB', timeZone: 'Europe/Berlin' };
 
@@ -66,6 +66,21 @@ describe('formatters', () => {
     it('should use the plural and group digits when the count is large', () => {
       expect(formatCount(12500, 'core-hour')).toBe('12,500 core-hours');
       expect(formatCount(0, 'person', 'people')).toBe('0 people');
+    });
+  });
+});
+
+describe('shortId', () => {
+  describe('UUIDs', () => {
+    it('should keep the last 8 characters when the id is a UUID', () => {
+      expect(shortId('2b000000-0000-4000-8000-000000000005')).toBe('…00000005');
+    });
+  });
+
+  describe('other ids', () => {
+    it('should keep short ids whole and cut long ones', () => {
+      expect(shortId('4711')).toBe('4711');
+      expect(shortId('x'.repeat(30))).toBe(`${'x'.repeat(23)}…`);
     });
   });
 });

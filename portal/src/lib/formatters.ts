@@ -64,3 +64,11 @@ export function formatDaysFromNow(value: DateInput, now: Date = new Date()): str
 export function formatCount(count: number, singular: string, plural = `${singular}s`): string {
   return `${count.toLocaleString('en')} ${count === 1 ? singular : plural}`;
 }
+
+/**
+ * A short form of an id for tables: the last 8 characters of a UUID (the demo's fixed ids differ
+ * only there), the whole id when it is short. The full id goes in a title attribute.
+ */
+export function shortId(id: string): string {
+  return /^[0-9a-f]{8}-[0-9a-f]{4}-/i.test(id) ? `…${id.slice(-8)}` : id.length > 24 ? `${id.slice(0, 23)}…` : id;
+}

@@ -1,1 +1,2 @@
 export * from './group.schema';
+export * from './group-roles';

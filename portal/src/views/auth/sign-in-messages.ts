@@ -4,6 +4,8 @@ const MESSAGES: Record<string, string> = {
   session_ended: 'Your session has ended. Sign in again to carry on where you were.',
   access_denied: 'Sign-in was cancelled at the identity provider. Try again when you are ready.',
   account_inactive: 'Your Localis account is switched off. The consortium office can switch it on again.',
+  provider_unreachable: 'The consortium sign-in service is not answering. Try again in a few minutes.',
+  rate_limited: 'Too many sign-in attempts from your address. Wait a minute and try again.',
 };
 
 export function signInErrorMessage(code: unknown): string | null {

@@ -148,6 +148,10 @@ describe('bad input', () => {
         const res = await fetch(`${limited.url}/api/v1/auth/login`, { headers, redirect: 'manual' });
         expect(res.headers.get('retry-after')).toBe('60');
         expect((await errorOf(res)).code).toBe('rate_limited');
+        // A browser opening the page gets the sign-in page with the reason instead.
+        const page = await fetch(`${limited.url}/api/v1/auth/login`, { headers: { ...headers, accept: 'text/html,application/xhtml+xml' }, redirect: 'manual' });
+        expect(page.status).toBe(302);
+        expect(page.headers.get('location')).toBe(`${limited.url}/sign-in?error=rate_limited`);
       } finally {
         await limited.close();
       }
