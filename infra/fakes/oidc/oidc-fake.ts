@@ -1,4 +1,4 @@
-import { createHash, randomBytes } from 'node:crypto';
+import { createHash, generateKeyPairSync, randomBytes } from 'node:crypto';
 import type { Server } from 'node:http';
 import express from 'express';
 import Provider, { type Configuration, type KoaContextWithOIDC } from 'oidc-provider';
@@ -62,7 +62,11 @@ export async function startOidcFake(opts: OidcFakeOptions): Promise<{ server: Se
     return undefined;
   };
 
+  // A fresh signing key per start, as the fake keeps no state across starts anyway.
+  const signingKey = { ...generateKeyPairSync('rsa', { modulusLength: 2048 }).privateKey.export({ format: 'jwk' }), use: 'sig', alg: 'RS256', kid: randomBytes(8).toString('hex') };
+
   const configuration: Configuration = {
+    jwks: { keys: [signingKey as never] },
     clients: [
       {
         client_id: opts.clientId,
