@@ -89,7 +89,13 @@ export async function startOidcFake(opts: OidcFakeOptions): Promise<{ server: Se
       if (!account) return undefined;
       // Test addresses starting with "unverified" stand for accounts whose e-mail the provider never checked.
       const verified = !account.email.startsWith('unverified');
-      return { accountId: sub, claims: async () => ({ sub, email: account.email, email_verified: verified, name: account.name }) };
+      // Addresses starting with "userinfo-only" stand for providers that keep e-mail out of the ID token.
+      const minimalIdToken = account.email.startsWith('userinfo-only');
+      return {
+        accountId: sub,
+        claims: async (use: string) =>
+          use === 'id_token' && minimalIdToken ? { sub } : { sub, email: account.email, email_verified: verified, name: account.name },
+      };
     },
     interactions: { url: (_ctx, interaction) => `/interaction/${interaction.uid}` },
     cookies: {

@@ -65,6 +65,14 @@ describe('sign-in', () => {
       expect(after.linked).toBe(false);
     });
 
+    it('should read the e-mail from userinfo when the ID token does not carry it', async () => {
+      const person = await t.services.people.create(SYSTEM, { name: 'Userinfo Only', email: `userinfo-only-${Date.now()}@test.example`, institutionId: null, roles: ['researcher'] });
+      const browser = new BrowserSession(t.url);
+      const landed = await browser.signIn(person.email);
+      expect(landed.pathname).toBe('/');
+      expect(await browser.refreshSession()).toMatchObject({ signedIn: true, person: { id: person.id } });
+    });
+
     it('should refuse a deactivated account when it signs in', async () => {
       const person = await createPerson(t, { roles: ['researcher'], label: 'inactive' });
       await t.services.people.update({ principal: null, ip: null, userAgent: null }, person.id, { active: false });
