@@ -10,6 +10,7 @@ export interface PeopleQuery extends QueryParams {
   role?: string;
   institutionId?: string;
   active?: string;
+  linked?: string;
 }
 
 const one = (id: string) => `/people/${encodeURIComponent(id)}`;

@@ -2,35 +2,15 @@ import type { Institution, InstitutionInput, InstitutionPatch } from '@localis/s
 import { MAX_PAGE_SIZE } from '@localis/shared';
 import { defineStore } from 'pinia';
 import { ref } from 'vue';
-import { institutionsApi, type InstitutionsQuery } from '../api/institutions.api';
-import { isAbort, latestOnly } from './latest-only';
+import { institutionsApi } from '../api/institutions.api';
+import { usePagedList } from './paged-list';
 
 export const useInstitutionsStore = defineStore('institutions', () => {
   /** One page of the admin table. */
-  const items = ref<Institution[]>([]);
-  const total = ref(0);
-  const loading = ref(false);
+  const { items, total, loading, load } = usePagedList(institutionsApi.list);
   /** Every institution by name, for the Select fields of other forms. */
   const options = ref<Institution[]>([]);
   const optionsLoaded = ref(false);
-
-  const lists = latestOnly();
-
-  async function load(query: InstitutionsQuery): Promise<void> {
-    const { signal, isCurrent } = lists.begin();
-    loading.value = true;
-    try {
-      const page = await institutionsApi.list(query, signal);
-      if (!isCurrent()) return;
-      items.value = page.items;
-      total.value = page.total;
-    } catch (error) {
-      if (isAbort(error)) return;
-      throw error;
-    } finally {
-      if (isCurrent()) loading.value = false;
-    }
-  }
 
   async function loadOptions(force = false): Promise<void> {
     if (optionsLoaded.value && !force) return;

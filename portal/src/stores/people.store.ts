@@ -1,41 +1,17 @@
 import type { Person, PersonInput, PersonPatch, Role } from '@localis/shared';
 import { defineStore } from 'pinia';
 import { ref } from 'vue';
-import { peopleApi, type PeopleQuery } from '../api/people.api';
-import { isAbort, latestOnly } from './latest-only';
-
-/** How many recent accounts the home page looks through for ones never signed in. */
-const UNLINKED_SCAN = 100;
+import { peopleApi } from '../api/people.api';
+import { usePagedList } from './paged-list';
 
 export const usePeopleStore = defineStore('people', () => {
-  const items = ref<Person[]>([]);
-  const total = ref(0);
-  const loading = ref(false);
-  const unlinked = ref<{ count: number; scanned: number; first: Person[] } | null>(null);
+  const { items, total, loading, load } = usePagedList(peopleApi.list);
+  const unlinked = ref<{ count: number; first: Person[] } | null>(null);
 
-  const lists = latestOnly();
-
-  async function load(query: PeopleQuery): Promise<void> {
-    const { signal, isCurrent } = lists.begin();
-    loading.value = true;
-    try {
-      const page = await peopleApi.list(query, signal);
-      if (!isCurrent()) return;
-      items.value = page.items;
-      total.value = page.total;
-    } catch (error) {
-      if (isAbort(error)) return;
-      throw error;
-    } finally {
-      if (isCurrent()) loading.value = false;
-    }
-  }
-
-  /** Accounts the office added that nobody has signed in to yet, among the most recent ones. */
+  /** Accounts the office added that nobody has signed in to yet: how many, and the newest five. */
   async function loadUnlinked(): Promise<void> {
-    const page = await peopleApi.list({ limit: UNLINKED_SCAN, sort: '-createdAt' });
-    const never = page.items.filter((p) => !p.linked);
-    unlinked.value = { count: never.length, scanned: page.items.length, first: never.slice(0, 5) };
+    const page = await peopleApi.list({ linked: 'false', limit: 5, sort: '-createdAt' });
+    unlinked.value = { count: page.total, first: page.items };
   }
 
   function replace(person: Person): Person {

@@ -81,6 +81,15 @@ export async function tokenFor(t: TestApp, person: { id: string; name: string; e
   return (await t.services.tokens.create(ctx, { name: 'test', scopes: allowed, expiresInDays: 30 })).secret;
 }
 
+/** Call the app as a script does: a bearer API token, JSON in and out. `path` is from the site root. */
+export function withToken(t: TestApp, token: string, method: string, path: string, body?: unknown): Promise<Response> {
+  return fetch(t.url + path, {
+    method,
+    headers: { authorization: `Bearer ${token}`, ...(body !== undefined ? { 'content-type': 'application/json' } : {}) },
+    body: body !== undefined ? JSON.stringify(body) : undefined,
+  });
+}
+
 /** A browser-like client: a cookie jar and manual redirects, for the real OIDC sign-in. */
 export class BrowserSession {
   private readonly jar = new Map<string, string>();

@@ -38,14 +38,12 @@ export const PersonPatch = z
   .meta({ id: 'PersonPatch' });
 export type PersonPatch = z.infer<typeof PersonPatch>;
 
-export const RoleGrantInput = z.object({ role: Role }).meta({ id: 'RoleGrantInput' });
-export type RoleGrantInput = z.infer<typeof RoleGrantInput>;
-
 export const PersonListQuery = listQuery(['name', 'email', 'institutionName', 'createdAt', 'lastSignInAt'], {
   q: z.string().trim().max(100).optional().describe('matches name or e-mail'),
   role: Role.optional(),
   institutionId: z.uuid().optional(),
   active: QueryBoolean.optional(),
+  linked: QueryBoolean.optional().describe('false: people who never signed in'),
 }, 'name');
 export type PersonListQuery = z.infer<typeof PersonListQuery>;
 

@@ -1,17 +1,12 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { createInstitution, createPerson, startTestApp, SYSTEM, tokenFor, type TestApp } from '../../test/harness';
+import { createInstitution, createPerson, startTestApp, SYSTEM, tokenFor, withToken, type TestApp } from '../../test/harness';
 
 let t: TestApp;
 let piToken: string;
 let groupId: string;
 let pi: Awaited<ReturnType<typeof createPerson>>;
 
-const call = (token: string, method: string, path: string, body?: unknown) =>
-  fetch(`${t.url}/api/v1${path}`, {
-    method,
-    headers: { authorization: `Bearer ${token}`, ...(body ? { 'content-type': 'application/json' } : {}) },
-    body: body ? JSON.stringify(body) : undefined,
-  });
+const call = (token: string, method: string, path: string, body?: unknown) => withToken(t, token, method, `/api/v1${path}`, body);
 
 beforeAll(async () => {
   t = await startTestApp();

@@ -1,5 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { BrowserSession, createInstitution, createPerson, startTestApp, SYSTEM, tokenFor, type TestApp } from '../../test/harness';
+import { BrowserSession, createInstitution, createPerson, startTestApp, SYSTEM, tokenFor, withToken, type TestApp } from '../../test/harness';
 import { ACTORS, MATRIX, type Actor, type Fixtures } from './authorization-matrix';
 import { fullPath } from './route-registry';
 
@@ -84,18 +84,15 @@ describe('authorization matrix', () => {
   });
 
   describe('API token scopes', () => {
+    const asAdminWith = async (token: string, row: (typeof MATRIX)[number]) => {
+      if (row.before) await row.before(fixtures);
+      return withToken(t, token, row.method, await row.path(fixtures, 'admin'), row.body?.(fixtures));
+    };
     const viaToken = MATRIX.filter((row) => !row.freshSession && row.expect.anonymous !== row.expect.admin);
     it.each(viaToken.map((row) => [`${row.method} ${row.route}`, row] as const))(
       "should answer %s with an admin's read-only token as the admin for reads and 403 for writes",
       async (_name, row) => {
-        if (row.before) await row.before(fixtures);
-        const path = await row.path(fixtures, 'admin');
-        const body = row.body?.(fixtures);
-        const res = await fetch(t.url + path, {
-          method: row.method,
-          headers: { authorization: `Bearer ${adminReadToken}`, ...(body ? { 'content-type': 'application/json' } : {}) },
-          body: body ? JSON.stringify(body) : undefined,
-        });
+        const res = await asAdminWith(adminReadToken, row);
         expect(res.status).toBe(row.method === 'GET' ? row.expect.admin : 403);
       },
     );
@@ -103,14 +100,7 @@ describe('authorization matrix', () => {
     it.each(viaToken.filter((r) => r.method !== 'GET').map((row) => [`${row.method} ${row.route}`, row] as const))(
       "should answer %s with an admin's full token as the admin in the browser",
       async (_name, row) => {
-        if (row.before) await row.before(fixtures);
-        const path = await row.path(fixtures, 'admin');
-        const body = row.body?.(fixtures);
-        const res = await fetch(t.url + path, {
-          method: row.method,
-          headers: { authorization: `Bearer ${adminFullToken}`, ...(body ? { 'content-type': 'application/json' } : {}) },
-          body: body ? JSON.stringify(body) : undefined,
-        });
+        const res = await asAdminWith(adminFullToken, row);
         // Tokens cannot make tokens; everything else behaves as in the browser.
         expect(res.status).toBe(row.route === '/api/v1/me/tokens' ? 403 : row.expect.admin);
       },

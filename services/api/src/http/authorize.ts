@@ -1,5 +1,5 @@
 import type { NextFunction, Request, Response } from 'express';
-import { errors, ROLES, TOKEN_SCOPES, type Role, type TokenScope } from '@localis/shared';
+import { errors, TOKEN_SCOPES, type Role, type TokenScope } from '@localis/shared';
 import type { Access } from './route-registry';
 import type { Principal } from './principal';
 
@@ -28,10 +28,3 @@ export function decideAccess(rule: Access, principal: Principal | null | undefin
 export function authorize(rule: Access) {
   return (req: Request, _res: Response, next: NextFunction) => next(decideAccess(rule, req.principal) ?? undefined);
 }
-
-/** Ownership checks inside services: the same error shape as the route rule. */
-export function requireRole(principal: Principal, ...roles: Role[]): void {
-  if (!roles.some((r) => principal.roles.includes(r))) throw errors.forbidden();
-}
-
-export const ALL_ROLES = ROLES;

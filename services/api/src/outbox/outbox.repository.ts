@@ -44,8 +44,4 @@ export const outboxRepository = {
     else await OutboxMessage.increment('attempts', { where: { id }, transaction: tx });
     await OutboxMessage.update({ lastError: error.slice(0, 1000) }, { where: { id }, transaction: tx });
   },
-
-  async pendingCount(): Promise<number> {
-    return OutboxMessage.count({ where: { dispatchedAt: { [Op.is]: null } } });
-  },
 };

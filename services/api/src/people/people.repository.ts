@@ -72,6 +72,7 @@ export const peopleRepository = {
     }
     if (q.institutionId) and.push({ institutionId: q.institutionId });
     if (q.active !== undefined) and.push({ active: q.active });
+    if (q.linked !== undefined) and.push({ oidcSubject: q.linked ? { [Op.ne]: null } : { [Op.is]: null } });
     if (and.length) Object.assign(where, { [Op.and]: and });
     const { field, direction } = parseSort(q.sort);
     const order: any[] =

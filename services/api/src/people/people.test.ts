@@ -1,18 +1,13 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { OutboxMessage } from '../db/models';
-import { createInstitution, createPerson, startTestApp, tokenFor, type TestApp } from '../../test/harness';
+import { createInstitution, createPerson, startTestApp, tokenFor, withToken, type TestApp } from '../../test/harness';
 
 let t: TestApp;
 let adminToken: string;
 let admin: Awaited<ReturnType<typeof createPerson>>;
 const label = `ppl${Date.now().toString(36)}`;
 
-const api = (method: string, path: string, body?: unknown, token = adminToken) =>
-  fetch(`${t.url}/api/v1${path}`, {
-    method,
-    headers: { authorization: `Bearer ${token}`, ...(body ? { 'content-type': 'application/json' } : {}) },
-    body: body ? JSON.stringify(body) : undefined,
-  });
+const api = (method: string, path: string, body?: unknown, token = adminToken) => withToken(t, token, method, `/api/v1${path}`, body);
 
 beforeAll(async () => {
   t = await startTestApp();
@@ -33,6 +28,14 @@ describe('people', () => {
       expect(page.items.map((p) => p.email.split('-')[1])).toEqual(['c', 'b']);
       const second = (await (await api('GET', `/people?q=${label}-&role=researcher&sort=-email&limit=2&offset=2`)).json()) as { items: { email: string }[] };
       expect(second.items.map((p) => p.email.split('-')[1])).toEqual(['a']);
+    });
+
+    it('should list only the people who never signed in when linked=false', async () => {
+      const page = (await (await api('GET', `/people?q=${label}-&linked=false&limit=200`)).json()) as { items: { linked: boolean }[]; total: number };
+      expect(page.total).toBeGreaterThanOrEqual(3);
+      expect(page.items.every((p) => p.linked === false)).toBe(true);
+      const linked = (await (await api('GET', `/people?q=${label}-&linked=true`)).json()) as { total: number };
+      expect(linked.total).toBe(0);
     });
 
     it('should export every matching row as CSV when format=csv', async () => {

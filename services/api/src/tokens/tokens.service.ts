@@ -15,9 +15,9 @@ export function createTokensService(db: Database) {
   return {
     list: (ctx: RequestContext) => tokensRepository.listFor(ctx.principal!.personId),
 
-    create(ctx: RequestContext, input: ApiTokenInput, opts: { allowFromToken?: boolean } = {}) {
+    create(ctx: RequestContext, input: ApiTokenInput) {
       const p = ctx.principal!;
-      if (p.via === 'token' && !opts.allowFromToken) {
+      if (p.via === 'token') {
         throw errors.forbidden('API tokens cannot create other tokens. Create one on your profile page.');
       }
       const allowed = scopesAllowedFor(p.roles);

@@ -3,8 +3,8 @@ import type { AddressInfo } from 'node:net';
 import { afterEach, describe, expect, it } from 'vitest';
 import { Profile } from '@localis/shared';
 import { ApiClient, describeNetworkError } from './api-client';
-import { CliError } from './cli-error';
 import { demoToken, RESEARCHER } from '../../test/cli-harness';
+import { failure } from '../../test/cli-error-of';
 
 /** A real HTTP server standing in for whatever a wrong --url points at (a proxy, some other site). */
 let server: Server | undefined;
@@ -18,16 +18,6 @@ afterEach(async () => {
   await new Promise((done) => (server ? server.close(done) : done(undefined)));
   server = undefined;
 });
-
-async function failure(promise: Promise<unknown>): Promise<CliError> {
-  try {
-    await promise;
-  } catch (e) {
-    if (e instanceof CliError) return e;
-    throw e;
-  }
-  throw new Error('expected a CliError');
-}
 
 /** A port that was just free: nothing listens there, so connecting is refused. */
 async function closedPort(): Promise<number> {

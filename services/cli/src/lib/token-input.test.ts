@@ -1,23 +1,13 @@
 import { PassThrough, Readable } from 'node:stream';
 import { describe, expect, it } from 'vitest';
-import { CliError } from './cli-error';
 import { obtainToken, promptHidden } from './token-input';
+import { failure } from '../../test/cli-error-of';
 
 const TOKEN = 'lcs_kzZyaKYfY_lLQp5JBPCLp1I5FMLMM5aKbYRb6QaS4Q8';
 
 /** A pipe as a batch script gives it: not a terminal, ends after its content. */
 function pipe(text: string) {
   return { input: Readable.from([Buffer.from(text)]), output: new PassThrough() };
-}
-
-async function failure(promise: Promise<unknown>): Promise<CliError> {
-  try {
-    await promise;
-  } catch (e) {
-    if (e instanceof CliError) return e;
-    throw e;
-  }
-  throw new Error('expected a CliError');
 }
 
 describe('token-input', () => {
