@@ -10,3 +10,6 @@ export * from './audit';
 export * from './http';
 export * from './queues';
 export * from './mail.schema';
+export * from './physics';
+export * from './rounds';
+export * from './campaigns';
