@@ -21,7 +21,7 @@ describe('demo scenario', () => {
       await loadScenario(db, settings);
       const auditBefore = await AuditLog.count();
       const again = await loadScenario(db, settings);
-      expect(again).toEqual({ institutions: 0, people: 0, groups: 0, members: 0, tokens: 0 });
+      expect(again).toEqual({ institutions: 0, people: 0, groups: 0, members: 0, tokens: 0, rounds: 0, campaigns: 0 });
       expect(await AuditLog.count()).toBe(auditBefore);
     });
   });

@@ -3,9 +3,10 @@ import { dirname, join } from 'node:path';
 import { hashToken } from '@localis/api/tokens';
 import { createServices, SYSTEM_CONTEXT, type Services } from '@localis/api/services';
 import type { Database } from '@localis/api/db';
-import { TOKEN_SCOPES, type Settings } from '@localis/shared';
-import { ApiToken, Institution, Person, ResearchGroup } from '@localis/api/db';
-import { GROUPS, INSTITUTIONS, PEOPLE } from './scenario';
+import { CampaignInput, TOKEN_SCOPES, type Settings } from '@localis/shared';
+import { ApiToken, Campaign, Institution, Person, ResearchGroup, Round } from '@localis/api/db';
+import { GROUPS, INSTITUTIONS, PEOPLE, type ScenarioPerson } from './scenario';
+import { CAMPAIGNS, ROUNDS, type ScenarioRound } from './campaigns-scenario';
 
 const SEED_CONTEXT = { ...SYSTEM_CONTEXT, userAgent: 'localis-demo-scenario' };
 
@@ -15,6 +16,8 @@ export interface LoadReport {
   groups: number;
   members: number;
   tokens: number;
+  rounds: number;
+  campaigns: number;
 }
 
 /**
@@ -23,7 +26,7 @@ export interface LoadReport {
  */
 export async function loadScenario(db: Database, settings: Settings): Promise<LoadReport> {
   const services = createServices(db, settings);
-  const report: LoadReport = { institutions: 0, people: 0, groups: 0, members: 0, tokens: 0 };
+  const report: LoadReport = { institutions: 0, people: 0, groups: 0, members: 0, tokens: 0, rounds: 0, campaigns: 0 };
 
   for (const i of INSTITUTIONS) {
     if (await Institution.findByPk(i.id)) continue;
@@ -48,7 +51,52 @@ export async function loadScenario(db: Database, settings: Settings): Promise<Lo
     }
   }
   report.tokens = await ensureDemoTokens(services, settings);
+  await loadRoundsAndCampaigns(services, report);
   return report;
+}
+
+const monthsFrom = (start: Date, months: number) => new Date(Date.UTC(start.getUTCFullYear(), start.getUTCMonth() + months, 1)).toISOString();
+
+/**
+ * Rounds and campaigns go through the same services as people do: drafted by their owners,
+ * submitted by their PIs, reviewed and decided by the office. A closed round is loaded open, its
+ * campaigns decided, and then closed, as it would have happened.
+ */
+async function loadRoundsAndCampaigns(services: Services, report: LoadReport): Promise<void> {
+  const monthStart = new Date();
+  const admin = adminContext();
+  const fresh: ScenarioRound[] = [];
+  for (const r of ROUNDS) {
+    if (await Round.findByPk(r.id)) continue;
+    const closesMonths = r.closesMonths < 1 ? 1 : r.closesMonths;
+    await services.rounds.create(admin, { name: r.name, opensAt: monthsFrom(monthStart, r.opensMonths), closesAt: monthsFrom(monthStart, closesMonths), pools: r.pools }, r.id);
+    fresh.push(r);
+    report.rounds++;
+  }
+  for (const c of CAMPAIGNS) {
+    if (await Campaign.findByPk(c.id)) continue;
+    const owner = personContext(PEOPLE.find((p) => p.id === c.ownerId)!);
+    const input = CampaignInput.parse({ ...c.input, roundId: c.roundId });
+    const created = await services.campaigns.create(owner, input, c.id);
+    report.campaigns++;
+    if (c.state === 'draft') continue;
+    const group = GROUPS.find((g) => g.id === c.input.groupId)!;
+    await services.campaigns.submit(personContext(PEOPLE.find((p) => p.id === group.piPersonId)!), c.id);
+    if (c.state === 'submitted') continue;
+    await services.campaigns.startReview(admin, c.id);
+    if (c.state === 'in-review' || !c.decision) continue;
+    const outcome = c.state as 'granted' | 'partly-granted' | 'declined';
+    await services.campaigns.recordDecision(admin, c.id, { outcome, grantedCoreHours: Math.round(created.requestedCoreHours * c.decision.grantedShare), message: c.decision.message });
+  }
+  // Rounds that lie in the past close once their campaigns have been decided.
+  for (const r of fresh.filter((r) => r.closesMonths < 1)) {
+    await services.rounds.update(admin, r.id, { closesAt: monthsFrom(monthStart, r.closesMonths) });
+  }
+}
+
+/** A demo person acting in their own name, as the system (the audit log names no actor). */
+function personContext(p: ScenarioPerson) {
+  return { ...SEED_CONTEXT, principal: { personId: p.id, name: p.name, email: p.email, institutionId: p.institutionId, roles: p.roles, scopes: [...TOKEN_SCOPES], via: 'system' as const } };
 }
 
 /** Where a rule needs a person (group membership), the seed acts with the office's rights, as the system. */

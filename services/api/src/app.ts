@@ -28,6 +28,8 @@ import { institutionsRoutes } from './institutions/institutions.router';
 import { peopleRoutes } from './people/people.router';
 import { profileRoutes } from './profile/profile.router';
 import { tokensRoutes } from './tokens/tokens.router';
+import { roundsRoutes } from './rounds/rounds.router';
+import { campaignsRoutes } from './campaigns/campaigns.router';
 
 export const PORTAL_DIST = resolve(import.meta.dirname, '..', '..', '..', 'portal', 'dist');
 const VERSION = '0.1.0';
@@ -51,6 +53,8 @@ export function buildRoutes(deps: AppDeps, authController: ReturnType<typeof cre
     ...institutionsRoutes(services.institutions),
     ...groupsRoutes(services.groups),
     ...auditRoutes(),
+    ...roundsRoutes(services.rounds),
+    ...campaignsRoutes(services.campaigns),
   ];
   let openapi: unknown;
   routes.push({

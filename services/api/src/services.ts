@@ -5,6 +5,8 @@ import { createInstitutionsService } from './institutions/institutions.service';
 import { createPeopleService } from './people/people.service';
 import { createSignInService } from './auth/sign-in.service';
 import { createTokensService } from './tokens/tokens.service';
+import { createRoundsService } from './rounds/rounds.service';
+import { createCampaignsService } from './campaigns/campaigns.service';
 
 /** The composition root of the rules: seeds, the api and the worker all go through these. */
 export function createServices(db: Database, s: Settings) {
@@ -14,6 +16,8 @@ export function createServices(db: Database, s: Settings) {
     groups: createGroupsService(db),
     tokens: createTokensService(db),
     signIn: createSignInService(db),
+    rounds: createRoundsService(db),
+    campaigns: createCampaignsService(db),
   };
 }
 export type Services = ReturnType<typeof createServices>;

@@ -1,4 +1,5 @@
 import { Command, CommanderError } from 'commander';
+import { estimateCommand } from './commands/estimate.command';
 import { loginCommand } from './commands/login.command';
 import { logoutCommand } from './commands/logout.command';
 import { whoamiCommand } from './commands/whoami.command';
@@ -22,6 +23,9 @@ Start with:
   $ localis login --url https://<portal address>   # paste an API token from your profile page
   $ localis whoami
 
+Offline, without signing in:
+  $ localis estimate spec.json                    # core-hours and memory of a campaign spec
+
 Environment:
   LOCALIS_URL         portal address; wins over the stored profile
   LOCALIS_TOKEN       API token; wins over the stored profile (for batch scripts)
@@ -31,7 +35,7 @@ Environment:
 Exit codes: 0 ok, 1 failed, 2 usage error, 3 not signed in or token refused.`,
   );
 
-for (const command of [loginCommand(), whoamiCommand(), logoutCommand()]) {
+for (const command of [loginCommand(), whoamiCommand(), logoutCommand(), estimateCommand()]) {
   // addCommand() does not pass these down by itself, unlike .command().
   program.addCommand(command.copyInheritedSettings(program));
 }

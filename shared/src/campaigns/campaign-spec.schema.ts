@@ -6,6 +6,12 @@ import type { ErrorDetail } from '../errors/app-error';
  * method, on what kind of node. The form, the api, the CLI and the cost model all read it.
  */
 
+/** zod's own words for a missing or wrongly typed field are technical; these say what to give. */
+const expected = (what: string) => ({
+  error: (issue: { code?: string; input?: unknown }) =>
+    issue.code !== 'invalid_type' ? undefined : issue.input === undefined ? `${what} is required` : `${what} has the wrong type`,
+});
+
 /** Model families. Extend the list (and the cost model's bytes per entry) for new ones. */
 export const MODELS = ['anderson-box', 'anderson-gaussian', 'anderson-binary'] as const;
 export const Model = z.enum(MODELS, { message: `model must be one of: ${MODELS.join(', ')}` });
@@ -75,7 +81,7 @@ export const DisorderGrid = z
     to: z.number({ message: 'to must be a number' }).finite().min(0, 'to must be 0 or more').optional(),
     step: z.number({ message: 'step must be a number' }).finite().optional(),
     values: z.array(z.number({ message: 'each disorder value must be a number' }).finite().min(0, 'disorder values must be 0 or more')).optional(),
-  })
+  }, expected('disorder (from, to and step, or values)'))
   .strict()
   .superRefine((g, ctx) => {
     if (g.values !== undefined) {
@@ -135,7 +141,7 @@ export const NodeShape = z
   .object({
     coresPerNode: z.number().int('cores per node must be a whole number').min(1, 'a node has at least 1 core').max(4096),
     memoryGiBPerNode: z.number().finite().positive('memory per node must be greater than 0').max(65_536),
-  })
+  }, expected('node (cores and memory per node)'))
   .strict()
   .meta({ id: 'NodeShape' });
 export type NodeShape = z.infer<typeof NodeShape>;
@@ -167,16 +173,16 @@ export const CampaignSpec = z
     symmetryClass: SymmetryClass,
     goal: Goal.default('critical-point'),
     sizes: z
-      .array(z.number({ message: 'each size must be a number' }).int('sizes must be whole numbers').min(1, 'sizes must be positive integers').max(100_000, 'sizes above 100 000 are not supported'))
+      .array(z.number({ message: 'each size must be a number' }).int('sizes must be whole numbers').min(1, 'sizes must be positive integers').max(100_000, 'sizes above 100 000 are not supported'), expected('sizes (a list of linear sizes L)'))
       .min(1, 'give at least one system size L')
       .max(MAX_SIZES, `at most ${MAX_SIZES} sizes`)
       .refine((s) => new Set(s).size === s.length, 'each size may appear only once'),
     disorder: DisorderGrid,
     energies: z
-      .array(z.number({ message: 'each energy must be a number' }).finite())
+      .array(z.number({ message: 'each energy must be a number' }).finite(), expected('energies (a list of numbers)'))
       .min(1, 'give at least one energy')
       .max(1000, 'at most 1000 energies'),
-    realizations: z.number().int('realizations must be a whole number').min(1, 'at least 1 realization per point').max(10_000_000),
+    realizations: z.number(expected('realizations (a whole number)')).int('realizations must be a whole number').min(1, 'at least 1 realization per point').max(10_000_000),
     method: Method,
     targetPrecision: z.number().gt(0, 'target precision must be between 0 and 1 (exclusive)').lt(1, 'target precision must be between 0 and 1 (exclusive)').optional(),
     methodOptions: MethodOptions.default({}),

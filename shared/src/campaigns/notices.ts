@@ -37,7 +37,11 @@ export const PRECISION_COST_THRESHOLD = 0.001;
 /** Sizes beyond this multiple of the largest pilot size are an extrapolation worth naming. */
 export const PILOT_EXTRAPOLATION_FACTOR = 2;
 
-const fmt = (x: number, digits = 3) => Number(x.toPrecision(digits)).toLocaleString('en');
+/** Three significant digits, with thousands separators, never rounding a small amount to 0. */
+const fmt = (x: number, digits = 3) => {
+  const rounded = Number(x.toPrecision(digits));
+  return Math.abs(rounded) >= 1000 ? rounded.toLocaleString('en', { maximumFractionDigits: 0 }) : String(rounded);
+};
 
 export function campaignNotices(spec: CampaignSpec, estimate: CampaignEstimate): Notice[] {
   const notices: Notice[] = [];

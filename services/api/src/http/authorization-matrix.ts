@@ -18,7 +18,23 @@ export interface Fixtures {
   extraId: string;
   tokenIdOf(actor: Actor): Promise<string>;
   addExtraToGroupA(): Promise<void>;
+  /** An open round with a pool on MATRIX_MACHINE. */
+  roundId: string;
+  /** A draft of group A, owned by the researcher, that rows only read. */
+  draftId: string;
+  /** A new draft of group A owned by the researcher, for rows that change it. */
+  freshDraft(): Promise<string>;
+  /** A new proposal of group A, submitted by its PI. */
+  freshSubmitted(): Promise<string>;
 }
+
+export const MATRIX_MACHINE = 'matrix-cluster';
+
+/** A small valid campaign specification (3D transfer-matrix around the known critical point). */
+export const MATRIX_SPEC = {
+  model: 'anderson-box', dimension: 3, symmetryClass: 'AI', sizes: [4, 6, 8], disorder: { from: 15, to: 18, step: 0.5 },
+  energies: [0], realizations: 1, method: 'transfer-matrix', targetPrecision: 0.01, node: { coresPerNode: 64, memoryGiBPerNode: 256 },
+};
 
 export interface MatrixRow {
   method: 'GET' | 'POST' | 'PUT' | 'PATCH' | 'DELETE';
@@ -28,6 +44,8 @@ export interface MatrixRow {
   path: (f: Fixtures, actor: Actor) => string | Promise<string>;
   body?: (f: Fixtures) => unknown;
   before?: (f: Fixtures) => Promise<void>;
+  /** A POST that changes nothing (an estimate): a read-only token may make it. */
+  readOnly?: boolean;
   /** Signs in afresh for this row (sign-out would end the shared session). */
   freshSession?: boolean;
   expect: Record<Actor, number>;
@@ -98,4 +116,43 @@ export const MATRIX: MatrixRow[] = [
   },
 
   { method: 'GET', route: '/api/v1/audit', path: fixed('/api/v1/audit'), expect: only(200, ['admin']) },
+
+  { method: 'GET', route: '/api/v1/rounds', path: fixed('/api/v1/rounds'), expect: signedIn(200) },
+  { method: 'GET', route: '/api/v1/rounds/:id', path: (f) => `/api/v1/rounds/${f.roundId}`, expect: signedIn(200) },
+  {
+    method: 'POST', route: '/api/v1/rounds', path: fixed('/api/v1/rounds'),
+    body: () => ({ name: `Matrix round ${randomUUID().slice(0, 8)}`, opensAt: '2026-01-01T00:00:00Z', closesAt: '2099-01-01T00:00:00Z', pools: [{ machine: 'matrix-b', coreHours: 1000 }] }),
+    expect: only(201, ['admin']),
+  },
+  {
+    method: 'PATCH', route: '/api/v1/rounds/:id', path: (f) => `/api/v1/rounds/${f.roundId}`,
+    body: () => ({ pools: [{ machine: MATRIX_MACHINE, coreHours: 5_000_000 }] }), expect: only(200, ['admin']),
+  },
+
+  { method: 'POST', route: '/api/v1/estimates', path: fixed('/api/v1/estimates'), body: () => MATRIX_SPEC, readOnly: true, expect: signedIn(200) },
+  { method: 'GET', route: '/api/v1/campaigns', path: fixed('/api/v1/campaigns'), expect: only(200, ['researcher', 'pi', 'committee', 'admin', 'otherGroupPi']) },
+  {
+    method: 'POST', route: '/api/v1/campaigns', path: fixed('/api/v1/campaigns'),
+    body: (f) => ({ title: 'Matrix campaign', abstract: 'A campaign the authorization matrix drafts.', groupId: f.groupA, roundId: f.roundId, machine: MATRIX_MACHINE, spec: MATRIX_SPEC }),
+    // Only members of group A may draft in it; the other group's PI is refused by the service.
+    expect: only(201, ['researcher', 'pi']),
+  },
+  // Drafts are seen by their group and the office only; to others they do not exist.
+  { method: 'GET', route: '/api/v1/campaigns/:id', path: (f) => `/api/v1/campaigns/${f.draftId}`, expect: { ...only(200, ['researcher', 'pi', 'admin']), committee: 404, otherGroupPi: 404 } },
+  {
+    method: 'PATCH', route: '/api/v1/campaigns/:id', path: (f) => f.freshDraft().then((id) => `/api/v1/campaigns/${id}`),
+    body: () => ({ title: 'Matrix campaign, edited' }), expect: { ...only(200, ['researcher', 'pi']), otherGroupPi: 404 },
+  },
+  {
+    method: 'POST', route: '/api/v1/campaigns/:id/submit', path: (f) => f.freshDraft().then((id) => `/api/v1/campaigns/${id}/submit`),
+    expect: { ...only(200, ['pi']), otherGroupPi: 404 },
+  },
+  {
+    method: 'POST', route: '/api/v1/campaigns/:id/withdraw', path: (f) => f.freshDraft().then((id) => `/api/v1/campaigns/${id}/withdraw`),
+    body: () => ({ note: 'withdrawn by the matrix' }), expect: { ...only(200, ['researcher', 'pi']), otherGroupPi: 404 },
+  },
+  {
+    method: 'POST', route: '/api/v1/campaigns/:id/start-review', path: (f) => f.freshSubmitted().then((id) => `/api/v1/campaigns/${id}/start-review`),
+    expect: only(200, ['admin']),
+  },
 ];

@@ -6,8 +6,10 @@ import { RoleGrant } from './role-grant.model';
 import { ApiToken } from './api-token.model';
 import { AuditLog } from './audit-log.model';
 import { OutboxMessage } from './outbox-message.model';
+import { Round, RoundPool } from './round.model';
+import { Campaign, CampaignEvent } from './campaign.model';
 
-export { Institution, Person, ResearchGroup, GroupMembership, RoleGrant, ApiToken, AuditLog, OutboxMessage };
+export { Institution, Person, ResearchGroup, GroupMembership, RoleGrant, ApiToken, AuditLog, OutboxMessage, Round, RoundPool, Campaign, CampaignEvent };
 
 export interface Models {
   Institution: typeof Institution;
@@ -18,6 +20,10 @@ export interface Models {
   ApiToken: typeof ApiToken;
   AuditLog: typeof AuditLog;
   OutboxMessage: typeof OutboxMessage;
+  Round: typeof Round;
+  RoundPool: typeof RoundPool;
+  Campaign: typeof Campaign;
+  CampaignEvent: typeof CampaignEvent;
 }
 
 /**
@@ -33,6 +39,10 @@ export function initModels(sequelize: Sequelize): Models {
   ApiToken.initModel(sequelize);
   AuditLog.initModel(sequelize);
   OutboxMessage.initModel(sequelize);
+  Round.initModel(sequelize);
+  RoundPool.initModel(sequelize);
+  Campaign.initModel(sequelize);
+  CampaignEvent.initModel(sequelize);
 
   Person.belongsTo(Institution, { foreignKey: 'institutionId', as: 'institution' });
   Person.hasMany(RoleGrant, { foreignKey: 'personId', as: 'roleGrants' });
@@ -43,5 +53,10 @@ export function initModels(sequelize: Sequelize): Models {
   GroupMembership.belongsTo(Person, { foreignKey: 'personId', as: 'person' });
   GroupMembership.belongsTo(ResearchGroup, { foreignKey: 'groupId', as: 'group' });
   AuditLog.belongsTo(Person, { foreignKey: 'actorPersonId', as: 'actor' });
-  return { Institution, Person, ResearchGroup, GroupMembership, RoleGrant, ApiToken, AuditLog, OutboxMessage };
+  Round.hasMany(RoundPool, { foreignKey: 'roundId', as: 'pools' });
+  Campaign.belongsTo(ResearchGroup, { foreignKey: 'groupId', as: 'group' });
+  Campaign.belongsTo(Round, { foreignKey: 'roundId', as: 'round' });
+  Campaign.belongsTo(Person, { foreignKey: 'ownerPersonId', as: 'owner' });
+  CampaignEvent.belongsTo(Person, { foreignKey: 'actorPersonId', as: 'actor' });
+  return { Institution, Person, ResearchGroup, GroupMembership, RoleGrant, ApiToken, AuditLog, OutboxMessage, Round, RoundPool, Campaign, CampaignEvent };
 }

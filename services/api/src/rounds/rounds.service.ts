@@ -1,0 +1,65 @@
+import { UniqueConstraintError } from 'sequelize';
+import { errors, type RoundInput, type RoundListQuery, type RoundPatch } from '@localis/shared';
+import type { Database } from '../db';
+import type { RequestContext } from '../http/principal';
+import { auditService } from '../audit/audit.service';
+import { roundsRepository } from './rounds.repository';
+
+const duplicateName = (name: string) => errors.conflict(`A round named "${name}" exists already; choose another name.`);
+
+/** Allocation rounds: the office opens them with a pool of core-hours per machine. */
+export function createRoundsService(db: Database) {
+  return {
+    list: (q: RoundListQuery) => roundsRepository.list(q),
+
+    async get(id: string) {
+      const round = await roundsRepository.find(id);
+      if (!round) throw errors.notFound('The round');
+      return round;
+    },
+
+    create(ctx: RequestContext, input: RoundInput, fixedId?: string) {
+      return db.transaction(async (tx) => {
+        let id: string;
+        try {
+          id = await roundsRepository.create({ ...input, id: fixedId }, tx);
+        } catch (e) {
+          if (e instanceof UniqueConstraintError) throw duplicateName(input.name);
+          throw e;
+        }
+        await roundsRepository.replacePools(id, input.pools, tx);
+        await auditService.record(ctx, 'round.created', { type: 'round', id }, { ...input }, tx);
+        return (await roundsRepository.find(id, tx))!;
+      });
+    },
+
+    update(ctx: RequestContext, id: string, patch: RoundPatch) {
+      return db.transaction(async (tx) => {
+        const round = await roundsRepository.find(id, tx, true);
+        if (!round) throw errors.notFound('The round');
+        const opensAt = patch.opensAt ?? round.opensAt;
+        const closesAt = patch.closesAt ?? round.closesAt;
+        if (new Date(closesAt) <= new Date(opensAt)) {
+          throw errors.invalid('A round must close after it opens.', [{ path: ['closesAt'], message: 'a round must close after it opens' }]);
+        }
+        if (patch.pools) {
+          const inUse = await roundsRepository.machinesInUse(id, tx);
+          const dropped = inUse.filter((m) => !patch.pools!.some((p) => p.machine === m));
+          if (dropped.length) {
+            throw errors.conflict(`Campaigns of this round draw on ${dropped.join(', ')}; keep ${dropped.length > 1 ? 'those pools' : 'that pool'} or move the campaigns first.`);
+          }
+          await roundsRepository.replacePools(id, patch.pools, tx);
+        }
+        try {
+          await roundsRepository.update(id, patch, tx);
+        } catch (e) {
+          if (e instanceof UniqueConstraintError) throw duplicateName(patch.name ?? '');
+          throw e;
+        }
+        await auditService.record(ctx, 'round.updated', { type: 'round', id }, { ...patch }, tx);
+        return (await roundsRepository.find(id, tx))!;
+      });
+    },
+  };
+}
+export type RoundsService = ReturnType<typeof createRoundsService>;
