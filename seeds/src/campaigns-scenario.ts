@@ -44,11 +44,11 @@ export const CAMPAIGNS: ScenarioCampaign[] = [
     id: campaign(1), ownerId: person(3), roundId: OPEN_ROUND, state: 'submitted',
     input: {
       title: 'Critical exponent of the 3D Anderson transition with box disorder',
-      abstract: 'Transfer-matrix computation of the normalised localization length Lambda on bars of cross-section up to 20 x 20 around W = 16.5, to determine W_c, nu and Lambda_c with 95 % confidence intervals by finite-size scaling with irrelevant corrections.',
-      justification: '## Aim\nPin down **nu** of the orthogonal class to better than 1 % with our own code, as the reference point for the group\'s later studies of correlated disorder.\n\n## Method\n- bars of L = 8 … 20, periodic transverse boundaries\n- relative precision 0.2 % of the smallest Lyapunov exponent\n- pilot timings on fjell attached',
+      abstract: 'Transfer-matrix computation of the normalised localization length Lambda on bars of cross-section up to 24 x 24 around W = 16.5, to determine W_c, nu and Lambda_c with 95 % confidence intervals by finite-size scaling with irrelevant corrections.',
+      justification: '## Aim\nPin down **nu** of the orthogonal class to better than 1 % with our own code, as the reference point for the group\'s later studies of correlated disorder.\n\n## Method\n- bars of L = 8 … 24, periodic transverse boundaries\n- relative precision 0.2 % of the smallest Lyapunov exponent\n- pilot timings on fjell attached',
       groupId: LATTICES, machine: 'fjell',
       spec: {
-        model: 'anderson-box', dimension: 3, symmetryClass: 'AI', goal: 'critical-point', sizes: [8, 10, 12, 14, 16, 20],
+        model: 'anderson-box', dimension: 3, symmetryClass: 'AI', goal: 'critical-point', sizes: [8, 10, 12, 14, 16, 20, 24],
         disorder: { from: 15, to: 18, step: 0.25 }, energies: [0], realizations: 1, method: 'transfer-matrix', targetPrecision: 0.002,
         methodOptions: { expectedLambda: 0.6 }, node,
         pilotTimings: [
@@ -66,8 +66,8 @@ export const CAMPAIGNS: ScenarioCampaign[] = [
       justification: 'Complements the transfer-matrix campaign with a spectral probe of the same transition.',
       groupId: LATTICES, machine: 'fjell',
       spec: {
-        model: 'anderson-box', dimension: 3, symmetryClass: 'AI', goal: 'spectral-statistics', sizes: [8, 10, 12, 14],
-        disorder: { from: 14, to: 19, step: 0.5 }, energies: [0], realizations: 400, method: 'exact-diagonalization', node,
+        model: 'anderson-box', dimension: 3, symmetryClass: 'AI', goal: 'spectral-statistics', sizes: [8, 10, 12, 14, 16, 18, 20],
+        disorder: { from: 14, to: 19, step: 0.5 }, energies: [0], realizations: 1000, method: 'exact-diagonalization', node,
       },
     },
   },
@@ -88,11 +88,11 @@ export const CAMPAIGNS: ScenarioCampaign[] = [
     id: campaign(4), ownerId: person(5), roundId: OPEN_ROUND, state: 'in-review',
     input: {
       title: 'Metal–insulator transition of the 2D symplectic class',
-      abstract: 'Strips with spin–orbit coupling (class AII) of widths 16 to 128, to determine the critical disorder and the exponent of the two-dimensional symplectic transition.',
+      abstract: 'Strips with spin–orbit coupling (class AII) of widths 16 to 256, to determine the critical disorder and the exponent of the two-dimensional symplectic transition.',
       justification: 'The symplectic class is the one two-dimensional class with a transition at zero field; its exponent nu = 2.73 (Asada, Slevin & Ohtsuki 2002) is a stringent test of our code.',
       groupId: TRANSPORT, machine: 'fjell',
       spec: {
-        model: 'anderson-box', dimension: 2, symmetryClass: 'AII', goal: 'critical-point', sizes: [16, 32, 64, 128],
+        model: 'anderson-box', dimension: 2, symmetryClass: 'AII', goal: 'critical-point', sizes: [16, 32, 64, 128, 256],
         disorder: { from: 5, to: 7, step: 0.1 }, energies: [1], realizations: 1, method: 'transfer-matrix', targetPrecision: 0.003, node,
       },
     },
@@ -106,8 +106,8 @@ export const CAMPAIGNS: ScenarioCampaign[] = [
       justification: 'Needed to compare the unitary exponent with the orthogonal one measured by the Brennmoor group.',
       groupId: TRANSPORT, machine: 'fjell',
       spec: {
-        model: 'anderson-box', dimension: 3, symmetryClass: 'A', goal: 'transport', sizes: [8, 12, 16, 24],
-        disorder: { from: 17, to: 19.5, step: 0.5 }, energies: [0], realizations: 2000, method: 'recursive-green', node,
+        model: 'anderson-box', dimension: 3, symmetryClass: 'A', goal: 'transport', sizes: [8, 12, 16, 24, 32],
+        disorder: { from: 17, to: 19.5, step: 0.5 }, energies: [0], realizations: 5000, method: 'recursive-green', node,
       },
     },
   },
@@ -120,8 +120,8 @@ export const CAMPAIGNS: ScenarioCampaign[] = [
       justification: 'Industrial partner campaign, billed at the partner rate card.',
       groupId: DEVICES, machine: 'skerry-gpu',
       spec: {
-        model: 'anderson-gaussian', dimension: 3, symmetryClass: 'A', goal: 'transport', sizes: [64, 96, 128],
-        disorder: { values: [1, 2, 4] }, energies: [0], realizations: 20, method: 'kernel-polynomial',
+        model: 'anderson-gaussian', dimension: 3, symmetryClass: 'A', goal: 'transport', sizes: [64, 128, 256],
+        disorder: { values: [1, 2, 4] }, energies: [0], realizations: 100, method: 'kernel-polynomial',
         methodOptions: { moments: 2048, randomVectors: 16 }, node,
       },
     },
