@@ -121,6 +121,21 @@ export function disorderValues(grid: DisorderGrid): number[] {
   return Array.from({ length: n }, (_, i) => Number((from + i * step).toPrecision(12)));
 }
 
+/** Smallest and largest W of a valid grid, without listing the grid (it may hold 100 000 points). */
+export function disorderSpan(grid: DisorderGrid): { min: number; max: number } {
+  if (grid.values) {
+    let min = Infinity;
+    let max = -Infinity;
+    for (const w of grid.values) {
+      if (w < min) min = w;
+      if (w > max) max = w;
+    }
+    return { min, max };
+  }
+  const { from = 0, to = 0, step = 1 } = grid;
+  return { min: from, max: Number((from + (Math.min(rangeCount(from, to, step), MAX_GRID_POINTS) - 1) * step).toPrecision(12)) };
+}
+
 export function disorderCount(grid: DisorderGrid): number {
   return grid.values ? grid.values.length : rangeCount(grid.from ?? 0, grid.to ?? 0, grid.step ?? 1);
 }

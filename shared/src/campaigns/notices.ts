@@ -1,6 +1,6 @@
 import { z } from 'zod';
 import { ANDERSON_3D_ORTHOGONAL } from '../physics/reference-values';
-import { disorderValues, type CampaignSpec } from './campaign-spec.schema';
+import { disorderSpan, type CampaignSpec } from './campaign-spec.schema';
 import { GIB, type CampaignEstimate } from './cost-model';
 
 /**
@@ -74,9 +74,7 @@ export function campaignNotices(spec: CampaignSpec, estimate: CampaignEstimate):
     });
   }
 
-  const ws = disorderValues(spec.disorder);
-  const wMin = Math.min(...ws);
-  const wMax = Math.max(...ws);
+  const { min: wMin, max: wMax } = disorderSpan(spec.disorder);
   const wc = ANDERSON_3D_ORTHOGONAL.criticalDisorder;
   if (
     seekingTransition && spec.dimension === 3 && spec.model === 'anderson-box' && spec.symmetryClass === 'AI' &&
