@@ -13,7 +13,9 @@ export interface NavItem {
 /** The main navigation. Later slices append their features here. */
 export const NAV_ITEMS: NavItem[] = [
   { label: 'Home', to: { name: 'home' }, icon: 'pi pi-home', testId: 'nav-home' },
+  { label: 'Campaigns', to: { name: 'campaigns' }, icon: 'pi pi-briefcase', testId: 'nav-campaigns', roles: ['researcher', 'pi', 'committee', 'admin'] },
   { label: 'Profile', to: { name: 'profile' }, icon: 'pi pi-user', testId: 'nav-profile' },
+  { label: 'Rounds', to: { name: 'admin-rounds' }, icon: 'pi pi-calendar', testId: 'nav-rounds', roles: ['admin'] },
   { label: 'People', to: { name: 'admin-people' }, icon: 'pi pi-users', testId: 'nav-people', roles: ['admin'] },
   { label: 'Institutions', to: { name: 'admin-institutions' }, icon: 'pi pi-building', testId: 'nav-institutions', roles: ['admin'] },
   { label: 'Audit log', to: { name: 'admin-audit' }, icon: 'pi pi-history', testId: 'nav-audit', roles: ['admin'] },

@@ -1,8 +1,9 @@
-import { ApiTokenInput, InstitutionInput } from '@localis/shared';
+import { ApiTokenInput, DisorderGrid, InstitutionInput } from '@localis/shared';
+import { z } from 'zod';
 import { describe, expect, it } from 'vitest';
 import { nextTick } from 'vue';
 import { ApiError } from '../api/api-error';
-import { fieldErrors, useZodForm } from './use-zod-form';
+import { errorKey, fieldErrors, useZodForm } from './use-zod-form';
 
 describe('useZodForm', () => {
   describe('fieldErrors', () => {
@@ -77,6 +78,68 @@ describe('useZodForm', () => {
       expect(form.applyServerErrors(new ApiError(409, 'conflict', 'Exists.'))).toBe(false);
       expect(form.applyServerErrors(new Error('boom'))).toBe(false);
       expect(form.errors.value).toEqual({});
+    });
+  });
+
+  describe('nested paths', () => {
+    const Spec = z.object({ title: z.string().min(3, 'title needs at least 3 characters'), spec: z.object({ disorder: DisorderGrid, sizes: z.array(z.number({ message: 'each size must be a number' }).int()).min(1) }) });
+    const fromText = (v: { title: string; step: string; sizes: string }) => ({
+      title: v.title,
+      spec: { disorder: { from: 15, to: 18, step: v.step === '' ? undefined : Number(v.step) }, sizes: v.sizes.split(',').map(Number) },
+    });
+
+    it('should key an issue by its dotted path up to the first list index when the form is nested', () => {
+      expect(errorKey(['spec', 'disorder', 'step'], true)).toBe('spec.disorder.step');
+      expect(errorKey(['spec', 'sizes', 2], true)).toBe('spec.sizes');
+      expect(errorKey(['spec', 'pilotTimings', 0, 'seconds'], true)).toBe('spec.pilotTimings');
+      expect(errorKey([], true)).toBe('_form');
+      expect(errorKey(['spec', 'disorder', 'step'])).toBe('spec');
+    });
+
+    it('should put each nested message under its own field when the values are invalid', () => {
+      const form = useZodForm(Spec, () => ({ title: 'Anderson 3D', step: '0', sizes: '8, x, 16' }), { nested: true, toInput: fromText });
+
+      expect(form.validate()).toBeNull();
+      expect(form.errors.value).toEqual({ 'spec.disorder.step': 'step must be greater than 0', 'spec.sizes': 'each size must be a number' });
+    });
+
+    it('should follow a nested field as it is fixed after a failed attempt', async () => {
+      const form = useZodForm(Spec, () => ({ title: 'Anderson 3D', step: '0', sizes: '8, 16' }), { nested: true, toInput: fromText });
+      form.validate();
+
+      form.values.value.step = '0.25';
+      await nextTick();
+
+      expect(form.errors.value['spec.disorder.step']).toBeUndefined();
+    });
+
+    it('should say the form\'s words for an empty field when the schema has none of its own', () => {
+      const Node = z.object({ cores: z.number().int() });
+      const form = useZodForm(Node, () => ({ cores: '' }), {
+        nested: true,
+        toInput: (v) => ({ cores: v.cores === '' ? undefined : Number(v.cores) }),
+        typeMessages: { blank: 'fill this in', notANumber: 'must be a number' },
+      });
+      expect(form.validate()).toBeNull();
+      expect(form.errors.value).toEqual({ cores: 'fill this in' });
+
+      form.values.value.cores = 'many';
+      expect(form.validate()).toBeNull();
+      expect(form.errors.value).toEqual({ cores: 'must be a number' });
+    });
+
+    it('should put the server details beside nested fields when a 422 names their paths', () => {
+      const form = useZodForm(Spec, () => ({ title: 'Anderson 3D', step: '0.25', sizes: '8' }), { nested: true, toInput: fromText });
+      const error = new ApiError(422, 'invalid', 'Some fields are not valid.', [
+        { path: ['spec', 'disorder', 'step'], message: 'this grid has 300,001 points; take a larger step' },
+        { path: ['spec', 'sizes', 0], message: 'sizes above 100 000 are not supported' },
+      ]);
+
+      expect(form.applyServerErrors(error)).toBe(true);
+      expect(form.errors.value).toEqual({
+        'spec.disorder.step': 'this grid has 300,001 points; take a larger step',
+        'spec.sizes': 'sizes above 100 000 are not supported',
+      });
     });
   });
 });

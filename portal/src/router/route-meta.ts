@@ -12,5 +12,7 @@ declare module 'vue-router' {
     title?: string;
     /** Pages for signed-out people (sign-in): a signed-in person is sent on instead. */
     guestOnly?: boolean;
+    /** A page meant for paper: shown without the app's header and navigation. */
+    printable?: boolean;
   }
 }

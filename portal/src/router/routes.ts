@@ -1,5 +1,11 @@
+import type { Role } from '@localis/shared';
 import type { RouteRecordRaw } from 'vue-router';
 import './route-meta';
+
+/** Campaigns are read by everyone who works on or judges them; billing contacts see invoices only. */
+export const CAMPAIGN_READERS: Role[] = ['researcher', 'pi', 'committee', 'admin'];
+/** Drafting is for the people in research groups. */
+export const CAMPAIGN_AUTHORS: Role[] = ['researcher', 'pi'];
 
 /** Every page of the portal. Later slices add their feature's routes here. */
 export const routes: RouteRecordRaw[] = [
@@ -32,6 +38,45 @@ export const routes: RouteRecordRaw[] = [
     name: 'profile',
     component: () => import('../views/profile/profile-view.vue'),
     meta: { title: 'Your profile', requiresAuth: true },
+  },
+  {
+    path: '/campaigns',
+    name: 'campaigns',
+    component: () => import('../views/campaigns/campaigns-view.vue'),
+    meta: { title: 'Campaigns', requiresAuth: true, roles: CAMPAIGN_READERS },
+  },
+  {
+    path: '/campaigns/new',
+    name: 'campaign-new',
+    component: () => import('../views/campaigns/campaign-form-view.vue'),
+    meta: { title: 'New campaign', requiresAuth: true, roles: CAMPAIGN_AUTHORS },
+  },
+  {
+    path: '/campaigns/:id',
+    name: 'campaign-detail',
+    component: () => import('../views/campaigns/campaign-detail-view.vue'),
+    props: true,
+    meta: { title: 'Campaign', requiresAuth: true, roles: CAMPAIGN_READERS },
+  },
+  {
+    path: '/campaigns/:id/edit',
+    name: 'campaign-edit',
+    component: () => import('../views/campaigns/campaign-form-view.vue'),
+    props: true,
+    meta: { title: 'Edit campaign', requiresAuth: true, roles: CAMPAIGN_AUTHORS },
+  },
+  {
+    path: '/campaigns/:id/print',
+    name: 'campaign-print',
+    component: () => import('../views/campaigns/campaign-print-view.vue'),
+    props: true,
+    meta: { title: 'Campaign for print', requiresAuth: true, roles: CAMPAIGN_READERS, printable: true },
+  },
+  {
+    path: '/admin/rounds',
+    name: 'admin-rounds',
+    component: () => import('../views/admin/rounds/rounds-view.vue'),
+    meta: { title: 'Rounds', requiresAuth: true, roles: ['admin'] },
   },
   {
     path: '/admin/people',

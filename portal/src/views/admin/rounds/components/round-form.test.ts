@@ -1,0 +1,89 @@
+import { RoundInput, type Round } from '@localis/shared';
+import { describe, expect, it } from 'vitest';
+import { emptyPool, formOf, poolErrors, poolTotal, roundChanges, toDate, toIso } from './round-form';
+
+const round: Round = {
+  id: '5f0c1a2b-3c4d-4e5f-8a9b-0c1d2e3f4a5b',
+  name: '2027 spring round',
+  opensAt: '2027-01-15T00:00:00.000Z',
+  closesAt: '2027-03-31T21:59:59.000Z',
+  status: 'upcoming',
+  pools: [
+    { machine: 'cluster-a', coreHours: 5_000_000 },
+    { machine: 'gpu-b', coreHours: 800_000 },
+  ],
+  totalCoreHours: 5_800_000,
+  campaignCount: 0,
+  createdAt: '2026-11-01T09:00:00.000Z',
+};
+
+describe('round-form', () => {
+  describe('formOf', () => {
+    it('should start with one empty pool row when adding a round', () => {
+      expect(formOf(null)).toEqual({ name: '', opensAt: '', closesAt: '', pools: [emptyPool()] });
+    });
+
+    it('should copy the round so edits do not touch the table when editing', () => {
+      const form = formOf(round);
+      form.pools[0].coreHours = 1;
+      expect(round.pools[0].coreHours).toBe(5_000_000);
+    });
+  });
+
+  describe('toDate and toIso', () => {
+    it('should turn an ISO time into a Date and back when the picker is used', () => {
+      expect(toIso(toDate('2027-01-15T00:00:00Z'))).toBe('2027-01-15T00:00:00.000Z');
+      expect(toDate('')).toBeNull();
+      expect(toIso(null)).toBe('');
+    });
+  });
+
+  describe('poolErrors', () => {
+    it('should put each problem beside its row and field when the schema finds them', () => {
+      const result = RoundInput.safeParse({
+        name: 'Spring',
+        opensAt: '2027-01-15T00:00:00Z',
+        closesAt: '2027-03-31T00:00:00Z',
+        pools: [{ machine: 'Cluster A', coreHours: 10 }, { machine: 'gpu-b', coreHours: null }],
+      });
+      expect(result.success).toBe(false);
+      const errors = poolErrors(result.error!.issues);
+      expect(errors.rows[0].machine).toMatch(/lower-case letters/);
+      expect(errors.rows[1]).toEqual({ coreHours: 'enter the core-hours of this pool' });
+      expect(errors.list).toBeUndefined();
+    });
+
+    it('should report a machine named twice for the list as a whole', () => {
+      const result = RoundInput.safeParse({
+        name: 'Spring',
+        opensAt: '2027-01-15T00:00:00Z',
+        closesAt: '2027-03-31T00:00:00Z',
+        pools: [{ machine: 'gpu-b', coreHours: 10 }, { machine: 'gpu-b', coreHours: 20 }],
+      });
+      expect(poolErrors(result.error!.issues).list).toBe('each machine may have only one pool');
+    });
+
+    it('should place the server details too when they name a row', () => {
+      expect(poolErrors([{ path: ['pools', 1, 'coreHours'], message: 'below what is already granted' }]).rows[1].coreHours).toBe('below what is already granted');
+    });
+  });
+
+  describe('roundChanges', () => {
+    const input = { name: round.name, opensAt: '2027-01-15T00:00:00Z', closesAt: round.closesAt, pools: round.pools.map((p) => ({ ...p })) };
+
+    it('should find nothing to save when only the spelling of a time differs', () => {
+      expect(roundChanges(input, round)).toEqual({});
+    });
+
+    it('should send only the changed fields when some change', () => {
+      const pools = [{ machine: 'cluster-a', coreHours: 6_000_000 }];
+      expect(roundChanges({ ...input, name: 'Spring 2027', pools }, round)).toEqual({ name: 'Spring 2027', pools });
+    });
+  });
+
+  describe('poolTotal', () => {
+    it('should add the typed core-hours and skip empty rows', () => {
+      expect(poolTotal([{ machine: 'a1', coreHours: 100 }, emptyPool(), { machine: 'b2', coreHours: 50 }])).toBe(150);
+    });
+  });
+});
