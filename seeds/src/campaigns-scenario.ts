@@ -21,6 +21,8 @@ export interface ScenarioCampaign {
   state: CampaignState;
   /** For decided campaigns: the core-hours granted (partly: less than requested) and a message. */
   decision?: { grantedShare: number; message: string };
+  /** For a withdrawn campaign: the note its owner left. */
+  withdrawNote?: string;
   input: Omit<CampaignInput, 'roundId' | 'spec'> & { spec: Record<string, unknown> };
 }
 
@@ -55,6 +57,7 @@ export const CAMPAIGNS: ScenarioCampaign[] = [
           { size: 6, seconds: 41, cores: 1 }, { size: 8, seconds: 228, cores: 1 }, { size: 10, seconds: 890, cores: 1 },
           { size: 12, seconds: 2630, cores: 1 }, { size: 14, seconds: 6650, cores: 1 },
         ],
+        pilotSettings: { method: 'transfer-matrix', symmetryClass: 'AI', targetPrecision: 0.002, methodOptions: { expectedLambda: 0.6 } },
       },
     },
   },
@@ -94,6 +97,20 @@ export const CAMPAIGNS: ScenarioCampaign[] = [
       spec: {
         model: 'anderson-box', dimension: 2, symmetryClass: 'AII', goal: 'critical-point', sizes: [16, 32, 64, 128, 256],
         disorder: { from: 5, to: 7, step: 0.1 }, energies: [1], realizations: 1, method: 'transfer-matrix', targetPrecision: 0.003, node,
+      },
+    },
+  },
+  {
+    id: campaign(8), ownerId: person(5), roundId: OPEN_ROUND, state: 'withdrawn',
+    withdrawNote: 'Merged into the symplectic-class proposal.',
+    input: {
+      title: 'Spin–orbit strips at weak disorder',
+      abstract: 'Localization lengths of wide two-dimensional strips with spin–orbit coupling at weak disorder, before the transition.',
+      justification: '',
+      groupId: TRANSPORT, machine: 'fjell',
+      spec: {
+        model: 'anderson-box', dimension: 2, symmetryClass: 'AII', goal: 'localization-length', sizes: [32, 64, 128],
+        disorder: { from: 2, to: 4, step: 0.5 }, energies: [1], realizations: 1, method: 'transfer-matrix', targetPrecision: 0.005, node,
       },
     },
   },

@@ -2,7 +2,9 @@ import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { loadSettings } from '@localis/shared';
-import { AuditLog, openDatabase, Person, type Database } from '@localis/api/db';
+import { AuditLog, Campaign, openDatabase, Person, Round, type Database } from '@localis/api/db';
+import { CAMPAIGN_STATES, roundStatus } from '@localis/shared';
+import { CAMPAIGNS, ROUNDS } from './campaigns-scenario';
 import { hashToken } from '@localis/api/tokens';
 import { ApiToken } from '@localis/api/db';
 import { loadScenario } from './load-scenario';
@@ -36,6 +38,15 @@ describe('demo scenario', () => {
         expect(row?.personId, email).toBe(PEOPLE.find((p) => p.email === email)!.id);
       }
       expect(GROUPS.every((g) => g.memberIds.includes(g.piPersonId))).toBe(true);
+    });
+
+    it('should hold an open and a closed round and campaigns in every state, each as the story has it', async () => {
+      const rounds = await Round.findAll({ where: { id: ROUNDS.map((r) => r.id) } });
+      expect(rounds.map((r) => roundStatus({ opensAt: r.opensAt.toISOString(), closesAt: r.closesAt.toISOString() })).sort()).toEqual(['closed', 'open']);
+      const campaigns = await Campaign.findAll({ where: { id: CAMPAIGNS.map((c) => c.id) } });
+      for (const c of CAMPAIGNS) expect(campaigns.find((x) => x.id === c.id)?.state, c.input.title).toBe(c.state);
+      expect(new Set(campaigns.map((c) => c.state))).toEqual(new Set(CAMPAIGN_STATES));
+      expect(campaigns.some((c) => (c.spec.pilotTimings ?? []).length > 0)).toBe(true);
     });
   });
 });

@@ -6,7 +6,7 @@ import type { Database } from '@localis/api/db';
 import { CampaignInput, TOKEN_SCOPES, type Settings } from '@localis/shared';
 import { ApiToken, Campaign, Institution, Person, ResearchGroup, Round } from '@localis/api/db';
 import { GROUPS, INSTITUTIONS, PEOPLE, type ScenarioPerson } from './scenario';
-import { CAMPAIGNS, ROUNDS, type ScenarioRound } from './campaigns-scenario';
+import { CAMPAIGNS, ROUNDS } from './campaigns-scenario';
 
 const SEED_CONTEXT = { ...SYSTEM_CONTEXT, userAgent: 'localis-demo-scenario' };
 
@@ -65,32 +65,54 @@ const monthsFrom = (start: Date, months: number) => new Date(Date.UTC(start.getU
 async function loadRoundsAndCampaigns(services: Services, report: LoadReport): Promise<void> {
   const monthStart = new Date();
   const admin = adminContext();
-  const fresh: ScenarioRound[] = [];
   for (const r of ROUNDS) {
     if (await Round.findByPk(r.id)) continue;
     const closesMonths = r.closesMonths < 1 ? 1 : r.closesMonths;
     await services.rounds.create(admin, { name: r.name, opensAt: monthsFrom(monthStart, r.opensMonths), closesAt: monthsFrom(monthStart, closesMonths), pools: r.pools }, r.id);
-    fresh.push(r);
     report.rounds++;
   }
   for (const c of CAMPAIGNS) {
-    if (await Campaign.findByPk(c.id)) continue;
-    const owner = personContext(PEOPLE.find((p) => p.id === c.ownerId)!);
-    const input = CampaignInput.parse({ ...c.input, roundId: c.roundId });
-    const created = await services.campaigns.create(owner, input, c.id);
-    report.campaigns++;
-    if (c.state === 'draft') continue;
-    const group = GROUPS.find((g) => g.id === c.input.groupId)!;
-    await services.campaigns.submit(personContext(PEOPLE.find((p) => p.id === group.piPersonId)!), c.id);
-    if (c.state === 'submitted') continue;
-    await services.campaigns.startReview(admin, c.id);
-    if (c.state === 'in-review' || !c.decision) continue;
-    const outcome = c.state as 'granted' | 'partly-granted' | 'declined';
-    await services.campaigns.recordDecision(admin, c.id, { outcome, grantedCoreHours: Math.round(created.requestedCoreHours * c.decision.grantedShare), message: c.decision.message });
+    let current = await Campaign.findByPk(c.id);
+    if (!current) {
+      const owner = personContext(PEOPLE.find((p) => p.id === c.ownerId)!);
+      await services.campaigns.create(owner, CampaignInput.parse({ ...c.input, roundId: c.roundId }), c.id);
+      report.campaigns++;
+      current = (await Campaign.findByPk(c.id))!;
+    }
+    await advance(services, c, current.state, Number(current.requestedCoreHours));
   }
-  // Rounds that lie in the past close once their campaigns have been decided.
-  for (const r of fresh.filter((r) => r.closesMonths < 1)) {
-    await services.rounds.update(admin, r.id, { closesAt: monthsFrom(monthStart, r.closesMonths) });
+  // Rounds that lie in the past close once their campaigns have been decided (also after a load
+  // that stopped half-way: whatever is still open that should not be is closed now).
+  for (const r of ROUNDS.filter((r) => r.closesMonths < 1)) {
+    const round = await services.rounds.get(r.id);
+    if (round.status !== 'closed') await services.rounds.update(admin, r.id, { closesAt: monthsFrom(monthStart, r.closesMonths) });
+  }
+}
+
+/**
+ * Move a demo campaign from where it stands to where the story has it, one step at a time through
+ * the services, so a load that stopped half-way finishes the story when run again.
+ */
+async function advance(services: Services, c: (typeof CAMPAIGNS)[number], state: string, requested: number): Promise<void> {
+  const admin = adminContext();
+  const group = GROUPS.find((g) => g.id === c.input.groupId)!;
+  const pi = personContext(PEOPLE.find((p) => p.id === group.piPersonId)!);
+  const owner = personContext(PEOPLE.find((p) => p.id === c.ownerId)!);
+  if (c.state === 'withdrawn') {
+    if (state !== 'withdrawn') await services.campaigns.withdraw(owner, c.id, c.withdrawNote ?? null);
+    return;
+  }
+  const path = ['draft', 'submitted', 'in-review', c.state];
+  let at = path.indexOf(state);
+  if (at < 0 || state === c.state) return;
+  for (; path[at] !== c.state; at++) {
+    const next = path[at + 1];
+    if (next === 'submitted') await services.campaigns.submit(pi, c.id);
+    else if (next === 'in-review') await services.campaigns.startReview(admin, c.id);
+    else if (c.decision) {
+      const outcome = c.state as 'granted' | 'partly-granted' | 'declined';
+      await services.campaigns.recordDecision(admin, c.id, { outcome, grantedCoreHours: Math.round(requested * c.decision.grantedShare), message: c.decision.message });
+    }
   }
 }
 

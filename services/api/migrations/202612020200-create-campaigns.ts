@@ -75,12 +75,13 @@ export const up: Migration['up'] = async ({ queryInterface: q, sequelize }) => {
     await sequelize.query(`
       CREATE FUNCTION campaign_events_append_only() RETURNS trigger LANGUAGE plpgsql AS $$
       BEGIN RAISE EXCEPTION 'campaign history is append-only'; END $$;
-      CREATE TRIGGER campaign_events_no_change BEFORE UPDATE ON campaign_events
+      CREATE TRIGGER campaign_events_no_change BEFORE UPDATE OR DELETE ON campaign_events
         FOR EACH ROW EXECUTE FUNCTION campaign_events_append_only();`, { transaction });
   });
 };
 
 export const down: Migration['down'] = async ({ queryInterface: q, sequelize }) => {
+  await sequelize.query('DROP TRIGGER IF EXISTS campaign_events_no_change ON campaign_events');
   await q.dropTable('campaign_events');
   await sequelize.query('DROP FUNCTION IF EXISTS campaign_events_append_only()');
   await q.dropTable('campaigns');

@@ -159,7 +159,19 @@ describe('CampaignSpec', () => {
     });
 
     it('should accept a precision just inside (0, 1)', () => {
-      for (const targetPrecision of [1e-6, 0.999]) expect(CampaignSpec.safeParse({ ...EXAMPLE_SPEC_INPUT, targetPrecision }).success).toBe(true);
+      for (const targetPrecision of [1e-5, 0.999]) expect(CampaignSpec.safeParse({ ...EXAMPLE_SPEC_INPUT, targetPrecision }).success).toBe(true);
+    });
+
+    it('should refuse a precision finer than 0.001 % when the bars could never be run', () => {
+      expect(issuesOf({ targetPrecision: 1e-6 })[0][0]).toEqual(['targetPrecision']);
+    });
+
+    it('should refuse a plan whose total passes what a round can hold', () => {
+      // 3D transfer matrix at L = 400 and eps = 1e-5: ~10^24 operations per job, far past 10^12 core-hours.
+      const issues = issuesOf({ sizes: [100, 400], targetPrecision: 1e-5, realizations: 1000 });
+      expect(issues).toHaveLength(1);
+      expect(issues[0][0]).toEqual(['sizes']);
+      expect(issues[0][1]).toMatch(/10\^12/);
     });
 
     it('should require a precision when the method is the transfer matrix', () => {

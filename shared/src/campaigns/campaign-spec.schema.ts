@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import type { ErrorDetail } from '../errors/app-error';
+import { estimateCampaign } from './cost-model';
 
 /**
  * The scientific specification of a campaign: what is simulated, on which grid, by which
@@ -164,9 +165,9 @@ export type NodeShape = z.infer<typeof NodeShape>;
 /** One measured pilot job: size L, wall-clock seconds, cores it used. */
 export const PilotTiming = z
   .object({
-    size: z.number().int('size must be a whole number').min(1, 'size must be at least 1'),
-    seconds: z.number().finite().positive('seconds must be greater than 0'),
-    cores: z.number().int('cores must be a whole number').min(1, 'cores must be at least 1'),
+    size: z.number(expected('size (the linear size L of the pilot)')).int('size must be a whole number').min(1, 'size must be at least 1'),
+    seconds: z.number(expected('seconds (wall-clock time of the pilot)')).finite().positive('seconds must be greater than 0'),
+    cores: z.number(expected('cores (how many the pilot used)')).int('cores must be a whole number').min(1, 'cores must be at least 1'),
   })
   .strict()
   .meta({ id: 'PilotTiming' });
@@ -180,6 +181,26 @@ export function pilotSetProblems(timings: readonly PilotTiming[]): ErrorDetail[]
   }
   return [];
 }
+
+/**
+ * The settings the pilot jobs ran with. When the plan's own settings differ (a finer precision, more
+ * moments), the cost model scales each pilot-calibrated job by the ratio of operations.
+ */
+export const PilotSettings = z
+  .object({
+    method: Method,
+    symmetryClass: SymmetryClass,
+    targetPrecision: z.number().gt(0).lt(1).optional(),
+    methodOptions: MethodOptions.optional(),
+  })
+  .strict()
+  .meta({ id: 'PilotSettings' });
+export type PilotSettings = z.infer<typeof PilotSettings>;
+
+/** The finest relative precision a transfer-matrix plan may ask for (bars of ~10^10 L slices). */
+export const MIN_TARGET_PRECISION = 1e-5;
+/** No plan may need more core-hours than a round can hold (the largest pool Localis accepts). */
+export const MAX_CAMPAIGN_CORE_HOURS = 1e12;
 
 export const CampaignSpec = z
   .object({
@@ -199,21 +220,51 @@ export const CampaignSpec = z
       .max(1000, 'at most 1000 energies'),
     realizations: z.number(expected('realizations (a whole number)')).int('realizations must be a whole number').min(1, 'at least 1 realization per point').max(10_000_000),
     method: Method,
-    targetPrecision: z.number().gt(0, 'target precision must be between 0 and 1 (exclusive)').lt(1, 'target precision must be between 0 and 1 (exclusive)').optional(),
+    targetPrecision: z
+      .number()
+      .superRefine((eps, ctx) => {
+        if (!(eps > 0 && eps < 1)) ctx.addIssue({ code: 'custom', message: 'target precision must be between 0 and 1 (exclusive)' });
+        else if (eps < MIN_TARGET_PRECISION) {
+          ctx.addIssue({ code: 'custom', message: `target precision must be at least ${MIN_TARGET_PRECISION} (0.001 %); finer targets need bars no machine can run` });
+        }
+      })
+      .optional(),
     methodOptions: MethodOptions.default({}),
     node: NodeShape,
     pilotTimings: z.array(PilotTiming).max(200, 'at most 200 pilot timings').optional(),
+    pilotSettings: PilotSettings.optional(),
   })
+  .strict()
   .superRefine((spec, ctx) => {
     if (spec.method === 'transfer-matrix' && spec.targetPrecision === undefined) {
       ctx.addIssue({ code: 'custom', path: ['targetPrecision'], message: 'the transfer-matrix method needs a target precision, e.g. 0.01 for 1 %' });
     }
+    let problems = 0;
+    const problem = (path: PropertyKey[], message: string) => {
+      problems++;
+      ctx.addIssue({ code: 'custom', path, message });
+    };
     if (spec.pilotTimings && spec.pilotTimings.length > 0) {
-      for (const p of pilotSetProblems(spec.pilotTimings)) ctx.addIssue({ code: 'custom', path: p.path, message: p.message });
+      for (const p of pilotSetProblems(spec.pilotTimings)) problem(p.path, p.message);
+      const ps = spec.pilotSettings;
+      if (ps && ps.method !== spec.method) {
+        problem(['pilotSettings', 'method'], `the pilot timings were measured with the ${ps.method} method, not ${spec.method}; remove them or time pilots of this method`);
+      }
+      if (ps && (SYMMETRY_CLASS_SIGNATURE[ps.symmetryClass].t === 1) !== (SYMMETRY_CLASS_SIGNATURE[spec.symmetryClass].t === 1)) {
+        problem(['pilotSettings', 'symmetryClass'], `the pilot timings were measured in class ${ps.symmetryClass}, whose arithmetic differs from class ${spec.symmetryClass}'s; time new pilots`);
+      }
     }
     const total = disorderCount(spec.disorder) * spec.energies.length;
     if (total > MAX_GRID_POINTS && disorderCount(spec.disorder) <= MAX_GRID_POINTS) {
-      ctx.addIssue({ code: 'custom', path: ['energies'], message: `disorder values × energies make ${total.toLocaleString('en')} grid points; at most ${MAX_GRID_POINTS.toLocaleString('en')} are allowed` });
+      problem(['energies'], `disorder values × energies make ${total.toLocaleString('en')} grid points; at most ${MAX_GRID_POINTS.toLocaleString('en')} are allowed`);
+    }
+    // zod runs this even when fields failed (their issues are in ctx.issues): only a sound plan is costed.
+    if (problems > 0 || ctx.issues.length > 0 || (spec.method === 'transfer-matrix' && spec.targetPrecision === undefined)) return;
+    // A plan must stay countable: a total past the largest pool (or past floating point) is refused.
+    const coreHours = estimateCampaign(spec).totalCoreHours;
+    if (!Number.isFinite(coreHours) || coreHours > MAX_CAMPAIGN_CORE_HOURS) {
+      const amount = Number.isFinite(coreHours) ? `${coreHours.toExponential(2)} core-hours` : 'more core-hours than can be counted';
+      problem(['sizes'], `this plan needs ${amount}, more than the 10^12 any round can hold; reduce the largest sizes, the realizations or the precision`);
     }
   })
   .meta({ id: 'CampaignSpec' });

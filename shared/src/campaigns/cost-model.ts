@@ -136,6 +136,17 @@ export function sizeExponent(method: Method, dimension: 1 | 2 | 3): number {
   }
 }
 
+/**
+ * How much more one job of this plan costs than a pilot job of the same size: the ratio of
+ * operations between the plan's settings and those the pilots ran with (1 when they are the same).
+ */
+export function pilotScale(spec: CampaignSpec, size: number): number {
+  const ps = spec.pilotSettings;
+  if (!ps) return 1;
+  const pilot = jobCost({ ...spec, targetPrecision: ps.targetPrecision ?? spec.targetPrecision, methodOptions: ps.methodOptions ?? spec.methodOptions }, size).operations;
+  return pilot > 0 ? jobCost(spec, size).operations / pilot : 1;
+}
+
 function stripUndefined<T extends object>(o: T): Partial<T> {
   return Object.fromEntries(Object.entries(o).filter(([, v]) => v !== undefined)) as Partial<T>;
 }
@@ -151,7 +162,7 @@ export function estimateCampaign(spec: CampaignSpec): CampaignEstimate {
 
   const rows: EstimateRow[] = sizes.map((size) => {
     const cost = jobCost(spec, size);
-    const coreSecondsPerJob = fit ? fit.prefactor * size ** fit.exponent : cost.operations / DEFAULT_FLOPS_PER_CORE;
+    const coreSecondsPerJob = fit ? fit.prefactor * size ** fit.exponent * pilotScale(spec, size) : cost.operations / DEFAULT_FLOPS_PER_CORE;
     return {
       size,
       points,
@@ -194,9 +205,19 @@ function assumptionsOf(spec: CampaignSpec, arithmetic: CampaignEstimate['arithme
   const out: string[] = [];
   out.push(
     fit
-      ? `Speed from ${fit.points} pilot timings: core-seconds per job = ${fit.prefactor.toPrecision(3)} × L^${fit.exponent.toFixed(2)} (R² = ${fit.rSquared.toFixed(3)}); each pilot is taken to be one job with this campaign's settings.`
+      ? `Speed from ${fit.points} pilot timings: core-seconds per pilot job = ${fit.prefactor.toPrecision(3)} × L^${fit.exponent.toFixed(2)} (R² = ${fit.rSquared.toFixed(3)}).`
       : `No pilot timings: a default sustained rate of ${(DEFAULT_FLOPS_PER_CORE / 1e9).toFixed(1)} GFLOP/s per core is assumed. Upload pilot timings for this machine to replace it.`,
   );
+  if (fit) {
+    const scale = pilotScale(spec, Math.max(...spec.sizes));
+    out.push(
+      !spec.pilotSettings
+        ? "Each pilot is taken to be one job with this campaign's own settings."
+        : Math.abs(scale - 1) < 1e-9
+          ? "The pilots ran with this campaign's settings."
+          : `The pilots ran with other settings${spec.pilotSettings.targetPrecision !== undefined ? ` (eps = ${spec.pilotSettings.targetPrecision})` : ''}: each job is scaled by the ratio of operations, ${scale.toPrecision(3)}× at the largest size.`,
+    );
+  }
   out.push(`Symmetry class ${spec.symmetryClass}: ${arithmetic.kind} arithmetic, ${arithmetic.bytesPerEntry} bytes per matrix entry.`);
   switch (spec.method) {
     case 'transfer-matrix':

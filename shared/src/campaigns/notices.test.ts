@@ -3,7 +3,7 @@ import { CRITICAL_EXPONENTS } from '../physics/reference-values';
 import type { CampaignSpec, CampaignSpecInput } from './campaign-spec.schema';
 import { estimateCampaign } from './cost-model';
 import { exampleSpec } from './example-spec.fixture';
-import { campaignNotices, Notice, NOTICE_CODES, PILOT_EXTRAPOLATION_FACTOR, PRECISION_COST_THRESHOLD, type NoticeCode } from './notices';
+import { campaignNotices, Notice, NOTICE_CODES, PILOT_EXTRAPOLATION_FACTOR, PRECISION_COST_CORE_HOURS, PRECISION_COST_THRESHOLD, type NoticeCode } from './notices';
 
 const noticesOf = (spec: CampaignSpec) => campaignNotices(spec, estimateCampaign(spec));
 const codesOf = (overrides: Partial<CampaignSpecInput>) => noticesOf(exampleSpec(overrides)).map((n) => n.code);
@@ -199,6 +199,13 @@ describe('campaign notices', () => {
       expect(n?.message).toContain('At 0.1 % it would be about');
     });
 
+    it('should warn at an ordinary precision when the plan passes a million core-hours', () => {
+      // 3D bars up to L = 96 at eps = 0.002: ~10^7 core-hours (L^7 growth), where a look at eps pays most.
+      const spec = exampleSpec({ sizes: [32, 64, 96], realizations: 1, targetPrecision: 0.002 });
+      expect(estimateCampaign(spec).totalCoreHours).toBeGreaterThan(PRECISION_COST_CORE_HOURS);
+      expect(noticesOf(spec).map((n) => n.code)).toContain('precision-cost');
+    });
+
     it('should stay quiet when the method is not the transfer matrix', () => {
       expect(codesOf({ method: 'kernel-polynomial', targetPrecision: 0.0005 })).not.toContain('precision-cost');
     });
@@ -214,7 +221,7 @@ describe('campaign notices', () => {
     });
 
     it('should stay quiet when there are no pilots', () => {
-      expect(codesOf({ sizes: [6, 8, 12, 1600] })).not.toContain('pilot-extrapolation');
+      expect(codesOf({ sizes: [6, 8, 12, 160] })).not.toContain('pilot-extrapolation');
     });
   });
 });

@@ -34,6 +34,8 @@ export type Notice = z.infer<typeof Notice>;
 
 /** Below this relative precision the cost of a transfer-matrix campaign runs away (common practice: 0.1 %–1 %). */
 export const PRECISION_COST_THRESHOLD = 0.001;
+/** A transfer-matrix plan this large is worth a second look at its precision, whatever eps is. */
+export const PRECISION_COST_CORE_HOURS = 1_000_000;
 /** Sizes beyond this multiple of the largest pilot size are an extrapolation worth naming. */
 export const PILOT_EXTRAPOLATION_FACTOR = 2;
 
@@ -118,7 +120,10 @@ export function campaignNotices(spec: CampaignSpec, estimate: CampaignEstimate):
     });
   }
 
-  if (spec.method === 'transfer-matrix' && spec.targetPrecision !== undefined && spec.targetPrecision < PRECISION_COST_THRESHOLD) {
+  if (
+    spec.method === 'transfer-matrix' && spec.targetPrecision !== undefined &&
+    (spec.targetPrecision < PRECISION_COST_THRESHOLD || estimate.totalCoreHours >= PRECISION_COST_CORE_HOURS)
+  ) {
     notices.push({
       code: 'precision-cost',
       severity: 'warning',

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import type { PilotTiming } from './campaign-spec.schema';
+import { CampaignSpec, type PilotTiming } from './campaign-spec.schema';
 import { estimateCampaign } from './cost-model';
 import { exampleSpec } from './example-spec.fixture';
 import { fitPilotTimings, parsePilotCsv } from './pilot-fit';
@@ -161,7 +161,28 @@ describe('pilot fit', () => {
     });
 
     it('should describe the fit in the assumptions when pilot timings are given', () => {
-      expect(estimate.assumptions[0]).toMatch(/^Speed from 3 pilot timings: core-seconds per job = 0\.00200 × L\^7\.00 \(R² = 1\.000\)/);
+      expect(estimate.assumptions[0]).toMatch(/^Speed from 3 pilot timings: core-seconds per pilot job = 0\.00200 × L\^7\.00 \(R² = 1\.000\)/);
     });
+  });
+});
+
+describe('pilot settings', () => {
+  const pilots = powerLaw(0.003, 6.8, [4, 6, 8, 12]);
+  const withPilots = (over: Record<string, unknown>) => exampleSpec({ pilotTimings: pilots, ...over });
+
+  it('should quadruple a pilot-calibrated estimate when the plan halves the precision the pilots ran with', () => {
+    // Slices M = Lambda L / eps^2 (Kramer & MacKinnon 1993): half the eps, four times the bar.
+    const atPilot = estimateCampaign(withPilots({ targetPrecision: 0.002, pilotSettings: { method: 'transfer-matrix', symmetryClass: 'AI', targetPrecision: 0.002 } }));
+    const finer = estimateCampaign(withPilots({ targetPrecision: 0.001, pilotSettings: { method: 'transfer-matrix', symmetryClass: 'AI', targetPrecision: 0.002 } }));
+    expect(finer.totalCoreHours / atPilot.totalCoreHours).toBeCloseTo(4, 4);
+    expect(finer.assumptions.join(' ')).toMatch(/eps = 0\.002.*scaled by the ratio of operations, 4\.00×/);
+  });
+
+  it('should refuse pilots timed with another method or another arithmetic', () => {
+    const input = { ...exampleSpec(), pilotTimings: pilots };
+    const method = CampaignSpec.safeParse({ ...input, pilotSettings: { method: 'kernel-polynomial', symmetryClass: 'AI' } });
+    expect(method.error?.issues.map((i) => i.path)).toEqual([['pilotSettings', 'method']]);
+    const arithmetic = CampaignSpec.safeParse({ ...input, pilotSettings: { method: 'transfer-matrix', symmetryClass: 'A' } });
+    expect(arithmetic.error?.issues.map((i) => i.path)).toEqual([['pilotSettings', 'symmetryClass']]);
   });
 });

@@ -36,8 +36,11 @@ const include = [
   { model: Person, as: 'owner', attributes: ['name'] },
 ];
 
-const myGroupsSql = (personId: string) =>
-  literal(`(SELECT group_id FROM group_memberships WHERE person_id = '${personId}' UNION SELECT id FROM research_groups WHERE pi_person_id = '${personId}')`);
+/** Groups a person belongs to or leads, as a subquery (the id is quoted by the driver's escape). */
+const myGroupsSql = (personId: string) => {
+  const id = Campaign.sequelize!.escape(personId);
+  return literal(`(SELECT group_id FROM group_memberships WHERE person_id = ${id} UNION SELECT id FROM research_groups WHERE pi_person_id = ${id})`);
+};
 
 const iso = (d: Date | null | undefined) => (d ? d.toISOString() : null);
 

@@ -39,10 +39,10 @@ function visibilityOf(p: Principal): Visibility {
 
 /** Campaigns: drafts their owners edit, the PI submits, the committee and the office take it from there. */
 export function createCampaignsService(db: Database) {
-  async function canSee(p: Principal, c: CampaignRecord): Promise<boolean> {
+  async function canSee(p: Principal, c: CampaignRecord, tx?: Transaction): Promise<boolean> {
     const v = visibilityOf(p);
     if (v.everything || (v.submittedOnes && c.submittedAt)) return true;
-    return c.groupPiPersonId === p.personId || (await groupsRepository.isMember(c.groupId, p.personId));
+    return c.groupPiPersonId === p.personId || (await groupsRepository.isMember(c.groupId, p.personId, tx));
   }
 
   function permissions(p: Principal, c: CampaignRecord) {
@@ -61,9 +61,12 @@ export function createCampaignsService(db: Database) {
     return { ...rest, estimate: c.estimate as unknown as Campaign['estimate'], history: await campaignsRepository.history(c.id, tx), can: permissions(p, c) };
   }
 
-  /** The round and machine a campaign draws on must exist, take proposals, and have that pool. */
+  /**
+   * The round and machine a campaign draws on must exist, take proposals, and have that pool. The
+   * round is share-locked so an office edit cannot remove the pool while the campaign is saved.
+   */
   async function checkRoundAndMachine(roundId: string, machine: string, tx: Transaction): Promise<Round> {
-    const round = await roundsRepository.find(roundId, tx);
+    const round = await roundsRepository.find(roundId, tx, 'share');
     if (!round) throw errors.invalid('That allocation round does not exist.', [{ path: ['roundId'], message: 'choose an existing round' }]);
     if (round.status === 'closed') {
       throw errors.invalid(`The round "${round.name}" closed on ${round.closesAt.slice(0, 10)}; choose an open round.`, [{ path: ['roundId'], message: 'this round is closed' }]);
@@ -78,7 +81,7 @@ export function createCampaignsService(db: Database) {
 
   async function loadForChange(ctx: RequestContext, id: string, tx: Transaction): Promise<CampaignRecord> {
     const c = await campaignsRepository.find(id, tx, true);
-    if (!c || !(await canSee(ctx.principal!, c))) throw errors.notFound('The campaign');
+    if (!c || !(await canSee(ctx.principal!, c, tx))) throw errors.notFound('The campaign');
     return c;
   }
 
@@ -145,7 +148,8 @@ export function createCampaignsService(db: Database) {
         if (c.state !== 'draft') {
           throw errors.conflict(`This campaign is ${CAMPAIGN_STATE_LABELS[c.state].toLowerCase()} and read-only; only drafts can be edited.`);
         }
-        if (patch.roundId !== undefined || patch.machine !== undefined) {
+        // A draft may keep a round that has since closed; only a move to another round or machine is checked.
+        if ((patch.roundId ?? c.roundId) !== c.roundId || (patch.machine ?? c.machine) !== c.machine) {
           await checkRoundAndMachine(patch.roundId ?? c.roundId, patch.machine ?? c.machine, tx);
         }
         const { spec, ...fields } = patch;

@@ -79,6 +79,10 @@ describe('campaigns', () => {
       ['an unknown method', { method: 'monte-carlo' }, ['method']],
       ['precision 0', { targetPrecision: 0 }, ['targetPrecision']],
       ['precision 1', { targetPrecision: 1 }, ['targetPrecision']],
+      ['a precision finer than 0.001 %', { targetPrecision: 1e-9 }, ['targetPrecision']],
+      ['a plan larger than any round', { sizes: [64, 400], targetPrecision: 1e-5, realizations: 1000 }, ['sizes']],
+      ['a misspelt field', { pilotTiming: [] }, []],
+      ['a pilot without its time', { pilotTimings: [{ size: 4, cores: 1 }, { size: 6, seconds: 3, cores: 1 }] }, ['pilotTimings', 0, 'seconds']],
       ['non-positive pilot times', { pilotTimings: [{ size: 4, seconds: 0, cores: 1 }, { size: 6, seconds: 3, cores: 1 }] }, ['pilotTimings', 0, 'seconds']],
     ])('should refuse %s with its field path', async (_name, change, path) => {
       const res = await call(researcherToken, 'POST', '/estimates', { ...SPEC, ...change });
@@ -168,9 +172,42 @@ describe('campaigns', () => {
       expect(((await late.json()) as { error: { message: string } }).error.message).toMatch(/granted/);
     });
 
-    it('should never let the history be edited', async () => {
+    it('should never let the history be edited or deleted', async () => {
       const c = await draft();
       await expect(CampaignEvent.update({ note: 'rewritten' }, { where: { campaignId: c.id } })).rejects.toThrow(/append-only/);
+      await expect(CampaignEvent.destroy({ where: { campaignId: c.id } })).rejects.toThrow(/append-only/);
+    });
+
+    it('should submit once when the PI submits twice at the same moment', async () => {
+      const c = await draft();
+      const answers = await Promise.all([1, 2, 3].map(() => call(piToken, 'POST', `/campaigns/${c.id}/submit`)));
+      expect(answers.map((r) => r.status).sort()).toEqual([200, 409, 409]);
+      expect(await CampaignEvent.count({ where: { campaignId: c.id, toState: 'submitted' } })).toBe(1);
+    });
+
+    it('should refuse changes through tokens that may only read', async () => {
+      const c = await draft();
+      const pi = (await t.db.models.ResearchGroup.findByPk(groupId))!.piPersonId;
+      const piPerson = await t.services.people.get(ctxOf({ ...researcher, roles: ['admin'] }), pi);
+      const readOnlyPi = await tokenFor(t, piPerson, ['read']);
+      const readOnlyResearcher = await tokenFor(t, researcher, ['read']);
+      expect((await call(readOnlyResearcher, 'PATCH', `/campaigns/${c.id}`, { title: 'Through a read token' })).status).toBe(403);
+      expect((await call(readOnlyResearcher, 'POST', `/campaigns/${c.id}/withdraw`)).status).toBe(403);
+      expect((await call(readOnlyPi, 'POST', `/campaigns/${c.id}/submit`)).status).toBe(403);
+      const seen = (await (await call(readOnlyResearcher, 'GET', `/campaigns/${c.id}`)).json()) as Campaign;
+      expect(seen.can).toEqual({ edit: false, submit: false, withdraw: false, startReview: false });
+      expect(seen.state).toBe('draft');
+    });
+
+    it('should let a draft in a round that has closed be edited without moving it', async () => {
+      const c = await draft();
+      await CampaignModel.update({ roundId: closedRoundId }, { where: { id: c.id } });
+      const kept = await call(researcherToken, 'PATCH', `/campaigns/${c.id}`, { title: 'Typo fixed', roundId: closedRoundId, machine: MACHINE });
+      expect(kept.status).toBe(200);
+      const moved = await call(researcherToken, 'PATCH', `/campaigns/${c.id}`, { roundId: openRoundId });
+      expect(moved.status).toBe(200);
+      const back = await call(researcherToken, 'PATCH', `/campaigns/${c.id}`, { roundId: closedRoundId });
+      expect(back.status).toBe(422);
     });
 
     it('should refuse to submit a draft whose round has closed', async () => {

@@ -47,13 +47,13 @@ beforeAll(async () => {
   });
   const draftInput = CampaignInput.parse({ title: 'Matrix draft', abstract: 'A draft the authorization matrix reads and changes.', groupId: groupA.id, roundId: round.id, machine: MATRIX_MACHINE, spec: MATRIX_SPEC });
   const freshDraft = async () => (await t.services.campaigns.create(as(researcher), draftInput)).id;
+  const freshSubmitted = async () => (await t.services.campaigns.submit(as(pi), await freshDraft())).id;
   fixtures = {
     roundId: round.id,
     draftId: await freshDraft(),
+    submittedId: await freshSubmitted(),
     freshDraft,
-    async freshSubmitted() {
-      return (await t.services.campaigns.submit(as(pi), await freshDraft())).id;
-    },
+    freshSubmitted,
     institutionA: instA.id,
     groupA: groupA.id,
     researcherId: researcher.id,

@@ -26,6 +26,8 @@ export interface Fixtures {
   freshDraft(): Promise<string>;
   /** A new proposal of group A, submitted by its PI. */
   freshSubmitted(): Promise<string>;
+  /** A proposal of group A, submitted once, that rows only read. */
+  submittedId: string;
 }
 
 export const MATRIX_MACHINE = 'matrix-cluster';
@@ -139,6 +141,8 @@ export const MATRIX: MatrixRow[] = [
   },
   // Drafts are seen by their group and the office only; to others they do not exist.
   { method: 'GET', route: '/api/v1/campaigns/:id', path: (f) => `/api/v1/campaigns/${f.draftId}`, expect: { ...only(200, ['researcher', 'pi', 'admin']), committee: 404, otherGroupPi: 404 } },
+  // Once submitted, the committee reads it too.
+  { method: 'GET', route: '/api/v1/campaigns/:id', path: (f) => `/api/v1/campaigns/${f.submittedId}`, expect: { ...only(200, ['researcher', 'pi', 'admin', 'committee']), otherGroupPi: 404 } },
   {
     method: 'PATCH', route: '/api/v1/campaigns/:id', path: (f) => f.freshDraft().then((id) => `/api/v1/campaigns/${id}`),
     body: () => ({ title: 'Matrix campaign, edited' }), expect: { ...only(200, ['researcher', 'pi']), otherGroupPi: 404 },

@@ -19,9 +19,10 @@ function toDto(r: Round, campaignCount: number, now = new Date()): RoundDto {
   };
 }
 
+/** Campaigns submitted to each round: drafts are their groups' business, not every reader's. */
 async function campaignCounts(ids: string[], tx?: Transaction): Promise<Map<string, number>> {
   if (!ids.length) return new Map();
-  const rows = (await Campaign.count({ where: { roundId: ids }, group: ['roundId'], transaction: tx })) as unknown as { roundId: string; count: number }[];
+  const rows = (await Campaign.count({ where: { roundId: ids, submittedAt: { [Op.ne]: null } }, group: ['roundId'], transaction: tx })) as unknown as { roundId: string; count: number }[];
   return new Map(rows.map((r) => [r.roundId, Number(r.count)]));
 }
 
@@ -43,8 +44,8 @@ export const roundsRepository = {
     return { items: rows.map((r) => toDto(r, counts.get(r.id) ?? 0)), total: count, limit: q.limit, offset: q.offset };
   },
 
-  async find(id: string, tx?: Transaction, lock = false): Promise<RoundDto | null> {
-    const r = await Round.findByPk(id, { transaction: tx, lock: lock && tx ? tx.LOCK.UPDATE : undefined });
+  async find(id: string, tx?: Transaction, lock: 'update' | 'share' | false = false): Promise<RoundDto | null> {
+    const r = await Round.findByPk(id, { transaction: tx, lock: lock && tx ? (lock === 'share' ? tx.LOCK.SHARE : tx.LOCK.UPDATE) : undefined });
     if (!r) return null;
     r.pools = await RoundPool.findAll({ where: { roundId: id }, transaction: tx });
     return toDto(r, (await campaignCounts([id], tx)).get(id) ?? 0);

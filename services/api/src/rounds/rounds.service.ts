@@ -35,7 +35,7 @@ export function createRoundsService(db: Database) {
 
     update(ctx: RequestContext, id: string, patch: RoundPatch) {
       return db.transaction(async (tx) => {
-        const round = await roundsRepository.find(id, tx, true);
+        const round = await roundsRepository.find(id, tx, 'update');
         if (!round) throw errors.notFound('The round');
         const opensAt = patch.opensAt ?? round.opensAt;
         const closesAt = patch.closesAt ?? round.closesAt;
