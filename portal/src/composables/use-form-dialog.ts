@@ -3,7 +3,7 @@ import { useApiErrorToast } from './use-api-error-toast';
 import { useDirtyGuard } from './use-dirty-guard';
 
 /** The part of a `useZodForm` form a dialog drives. */
-interface DialogForm<Input, Values> {
+export interface DialogForm<Input, Values> {
   dirty: Ref<boolean>;
   validate(): Input | null;
   reset(next?: Values): void;

@@ -3,6 +3,7 @@ import { useRouter } from 'vue-router';
 import { resetAllStores } from '../stores/reset-plugin';
 import { useSessionStore } from '../stores/session.store';
 import { useApiErrorToast } from './use-api-error-toast';
+import { confirmLeavingForms } from './use-dirty-guard';
 
 function isHttpUrl(value: string): boolean {
   try {
@@ -21,6 +22,8 @@ export function useSignOut() {
   const signingOut = ref(false);
 
   async function signOut(): Promise<void> {
+    // Unsaved changes are asked about before the session ends: "keep editing" keeps both.
+    if (!(await confirmLeavingForms())) return;
     signingOut.value = true;
     try {
       const result = await session.signOut();

@@ -1,8 +1,10 @@
+import { RoundListQuery } from '@localis/shared';
 import { flushPromises, mount } from '@vue/test-utils';
 import { describe, expect, it } from 'vitest';
 import { defineComponent, h } from 'vue';
 import { createMemoryHistory, createRouter, RouterView } from 'vue-router';
 import {
+  listQueryProblem,
   parseTableQuery,
   sortFromTable,
   sortToTable,
@@ -87,6 +89,17 @@ describe('useTableQuery', () => {
       expect(sortFromTable('secret', 1, spec)).toBe('name');
       expect(sortFromTable('email', 0, spec)).toBe('name');
       expect(sortFromTable(undefined, undefined, spec)).toBe('name');
+    });
+  });
+
+  describe('listQueryProblem', () => {
+    it('should be null when the api would accept the query', () => {
+      expect(listQueryProblem(RoundListQuery, { limit: 25, offset: 0, sort: '-opensAt', status: 'open' })).toBeNull();
+    });
+
+    it('should name each refused field when the address was edited by hand', () => {
+      const problem = listQueryProblem(RoundListQuery, { limit: 25, offset: 0, sort: '-opensAt', status: 'sometime' });
+      expect(problem).toMatch(/^status: /);
     });
   });
 

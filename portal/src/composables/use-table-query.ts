@@ -1,3 +1,4 @@
+import type { z } from 'zod';
 import { computed } from 'vue';
 import { useRoute, useRouter, type LocationQuery, type LocationQueryRaw } from 'vue-router';
 
@@ -87,6 +88,15 @@ export function sortFromTable<F extends string>(field: unknown, order: unknown, 
 }
 
 /**
+ * Why the api would refuse this list query, in its schema's words, or null. A hand-edited address
+ * then gets words instead of a failed request.
+ */
+export function listQueryProblem(schema: z.ZodType, apiQuery: unknown): string | null {
+  const result = schema.safeParse(apiQuery);
+  return result.success ? null : result.error.issues.map((i) => `${String(i.path[0])}: ${i.message}`).join('; ');
+}
+
+/**
  * Binds a lazy DataTable to the URL: paging, sorting and filters live in the query string so a
  * view can be shared and reloaded. The view watches `apiQuery` and loads.
  */
@@ -127,3 +137,6 @@ export function useTableQuery<F extends string>(spec: TableQuerySpec<F>) {
 
   return { state, apiQuery, firstRow, tableSort, hasFilters, onPage, onSort, setFilter, clearFilters };
 }
+
+/** What a server-side table needs of `useTableQuery`: where it stands and how it moves. */
+export type TableBinding = Pick<ReturnType<typeof useTableQuery>, 'state' | 'firstRow' | 'tableSort' | 'onPage' | 'onSort'>;

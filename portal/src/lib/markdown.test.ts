@@ -24,7 +24,17 @@ describe('markdown', () => {
     });
 
     it('should open links in a new tab without an opener when a link is given', () => {
-      expect(renderMarkdown('See [the notes](https://example.org/notes).')).toContain('<a target="_blank" rel="noopener noreferrer" href="https://example.org/notes"');
+      expect(renderMarkdown('See [the notes](https://example.org/notes).')).toBe('<p>See <a href="https://example.org/notes" target="_blank" rel="noopener noreferrer">the notes</a>.</p>\n');
+    });
+
+    it('should keep an attribute value that looks like a link as text when the author hides markup in it', () => {
+      // Links get their target on the cleaned DOM, so "<a href=" inside a value never becomes markup.
+      const html = renderMarkdown('<span title="<a href=x onmouseover=alert(1) y">hover</span>');
+      const doc = new DOMParser().parseFromString(html, 'text/html');
+      const span = doc.querySelector('span');
+      expect(span?.getAttribute('onmouseover')).toBeNull();
+      expect(doc.querySelectorAll('[onmouseover]')).toHaveLength(0);
+      expect(doc.querySelectorAll('a')).toHaveLength(0);
     });
 
     it('should give empty text when there is nothing to render', () => {

@@ -5,7 +5,7 @@ import { campaignsApi, type CampaignsQuery } from '../api/campaigns.api';
 import { roundsApi } from '../api/rounds.api';
 
 /** The campaign lists a home page shows: what needs the person now. */
-export type CampaignWorklist = 'drafts' | 'readyToSubmit' | 'awaitingReview';
+export type CampaignWorklist = 'drafts' | 'readyToSubmit' | 'awaitingReview' | 'inReview';
 
 /** The filters and order of each list, as the campaigns table spells them. */
 export const WORKLISTS: Record<CampaignWorklist, { filters: { scope?: string; state: string }; sort: string }> = {
@@ -15,6 +15,8 @@ export const WORKLISTS: Record<CampaignWorklist, { filters: { scope?: string; st
   readyToSubmit: { filters: { scope: 'my-groups', state: 'draft' }, sort: '-updatedAt' },
   /** Submitted and not yet taken into review: the longest waiting first. */
   awaitingReview: { filters: { state: 'submitted' }, sort: 'submittedAt' },
+  /** In review with the committee: what a committee member reads and scores, oldest first. */
+  inReview: { filters: { state: 'in-review' }, sort: 'submittedAt' },
 };
 
 export interface Worklist<T> {

@@ -1,10 +1,10 @@
 import { describe, expect, it } from 'vitest';
 import { CampaignSpec, disorderCount, disorderValues, MAX_GRID_POINTS, pilotSetProblems, rangeCount } from './campaign-spec.schema';
-import { EXAMPLE_SPEC_INPUT } from './example-spec.fixture';
+import { EXAMPLE_CAMPAIGN_SPEC } from './example-spec';
 
 /** The issues of a spec that differs from the example in the given fields, as [path, message]. */
 const issuesOf = (overrides: Record<string, unknown>) => {
-  const result = CampaignSpec.safeParse({ ...EXAMPLE_SPEC_INPUT, ...overrides });
+  const result = CampaignSpec.safeParse({ ...EXAMPLE_CAMPAIGN_SPEC, ...overrides });
   expect(result.success, 'the spec should have been refused').toBe(false);
   return (result.error?.issues ?? []).map((i) => [i.path, i.message]);
 };
@@ -12,19 +12,19 @@ const issuesOf = (overrides: Record<string, unknown>) => {
 describe('CampaignSpec', () => {
   describe('the issue example', () => {
     it('should accept it and fill in the goal when none is given', () => {
-      const spec = CampaignSpec.parse(EXAMPLE_SPEC_INPUT);
+      const spec = CampaignSpec.parse(EXAMPLE_CAMPAIGN_SPEC);
       expect(spec.goal).toBe('critical-point');
       expect(spec.methodOptions).toEqual({ moments: 1024, randomVectors: 8, eigenpairs: 50, expectedLambda: 0.6 });
     });
 
     it('should stand for 13 disorder points when W runs from 15 to 18 by 0.25', () => {
-      const spec = CampaignSpec.parse(EXAMPLE_SPEC_INPUT);
+      const spec = CampaignSpec.parse(EXAMPLE_CAMPAIGN_SPEC);
       expect(disorderCount(spec.disorder)).toBe(13);
       expect(disorderValues(spec.disorder)).toEqual([15, 15.25, 15.5, 15.75, 16, 16.25, 16.5, 16.75, 17, 17.25, 17.5, 17.75, 18]);
     });
 
     it('should accept a method without precision when it is not the transfer matrix', () => {
-      expect(CampaignSpec.safeParse({ ...EXAMPLE_SPEC_INPUT, method: 'exact-diagonalization', targetPrecision: undefined }).success).toBe(true);
+      expect(CampaignSpec.safeParse({ ...EXAMPLE_CAMPAIGN_SPEC, method: 'exact-diagonalization', targetPrecision: undefined }).success).toBe(true);
     });
   });
 
@@ -83,7 +83,7 @@ describe('CampaignSpec', () => {
 
     it('should accept exactly 100 000 points when the grid is at the limit', () => {
       const grid = { from: 1, to: 100_000, step: 1 };
-      expect(CampaignSpec.safeParse({ ...EXAMPLE_SPEC_INPUT, disorder: grid }).success).toBe(true);
+      expect(CampaignSpec.safeParse({ ...EXAMPLE_CAMPAIGN_SPEC, disorder: grid }).success).toBe(true);
       expect(rangeCount(grid.from, grid.to, grid.step)).toBe(MAX_GRID_POINTS);
     });
 
@@ -97,7 +97,7 @@ describe('CampaignSpec', () => {
     });
 
     it('should refuse unknown keys when the grid carries one', () => {
-      const issues = CampaignSpec.safeParse({ ...EXAMPLE_SPEC_INPUT, disorder: { from: 15, to: 18, step: 0.25, width: 1 } }).error?.issues ?? [];
+      const issues = CampaignSpec.safeParse({ ...EXAMPLE_CAMPAIGN_SPEC, disorder: { from: 15, to: 18, step: 0.25, width: 1 } }).error?.issues ?? [];
       expect(issues).toHaveLength(1);
       expect(issues[0]).toMatchObject({ code: 'unrecognized_keys', path: ['disorder'], keys: ['width'] });
       expect(issues[0].message).toContain('width');
@@ -159,7 +159,7 @@ describe('CampaignSpec', () => {
     });
 
     it('should accept a precision just inside (0, 1)', () => {
-      for (const targetPrecision of [1e-5, 0.999]) expect(CampaignSpec.safeParse({ ...EXAMPLE_SPEC_INPUT, targetPrecision }).success).toBe(true);
+      for (const targetPrecision of [1e-5, 0.999]) expect(CampaignSpec.safeParse({ ...EXAMPLE_CAMPAIGN_SPEC, targetPrecision }).success).toBe(true);
     });
 
     it('should refuse a precision finer than 0.001 % when the bars could never be run', () => {
@@ -186,7 +186,7 @@ describe('CampaignSpec', () => {
     });
 
     it('should accept an empty list when no pilots were run', () => {
-      expect(CampaignSpec.safeParse({ ...EXAMPLE_SPEC_INPUT, pilotTimings: [] }).success).toBe(true);
+      expect(CampaignSpec.safeParse({ ...EXAMPLE_CAMPAIGN_SPEC, pilotTimings: [] }).success).toBe(true);
       expect(pilotSetProblems([])).toEqual([{ path: ['pilotTimings'], message: 'the pilot CSV has no timings below its header' }]);
     });
 
@@ -198,7 +198,7 @@ describe('CampaignSpec', () => {
 
   describe('strictness', () => {
     it('should refuse unknown method options when one is misspelt', () => {
-      const issues = CampaignSpec.safeParse({ ...EXAMPLE_SPEC_INPUT, methodOptions: { moment: 1024 } }).error?.issues ?? [];
+      const issues = CampaignSpec.safeParse({ ...EXAMPLE_CAMPAIGN_SPEC, methodOptions: { moment: 1024 } }).error?.issues ?? [];
       expect(issues).toHaveLength(1);
       expect(issues[0]).toMatchObject({ code: 'unrecognized_keys', path: ['methodOptions'], keys: ['moment'] });
     });

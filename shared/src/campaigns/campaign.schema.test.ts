@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { CAMPAIGN_STATES, CAMPAIGN_TRANSITIONS, CampaignInput, CampaignListQuery, CampaignPatch, canTransition, type CampaignState, type CampaignTransition } from './campaign.schema';
-import { EXAMPLE_SPEC_INPUT } from './example-spec.fixture';
+import { EXAMPLE_CAMPAIGN_SPEC } from './example-spec';
 
 const GROUP = '0b6f1a52-7c1e-4d55-9a57-4f1c2a0e5b11';
 const ROUND = '5d3e2c41-1a2b-4c3d-8e9f-0a1b2c3d4e5f';
@@ -52,7 +52,7 @@ describe('campaign schemas', () => {
   });
 
   describe('CampaignInput', () => {
-    const input = { title: 'Critical point of the 3D Anderson model', abstract: 'Finite-size scaling of Lambda near W_c at E = 0.', groupId: GROUP, roundId: ROUND, machine: 'cluster-a', spec: EXAMPLE_SPEC_INPUT };
+    const input = { title: 'Critical point of the 3D Anderson model', abstract: 'Finite-size scaling of Lambda near W_c at E = 0.', groupId: GROUP, roundId: ROUND, machine: 'cluster-a', spec: EXAMPLE_CAMPAIGN_SPEC };
 
     it('should accept a proposal and default the justification when it is left out', () => {
       const parsed = CampaignInput.parse(input);
@@ -61,7 +61,7 @@ describe('campaign schemas', () => {
     });
 
     it('should report spec problems under spec when the spec is wrong', () => {
-      const issues = CampaignInput.safeParse({ ...input, spec: { ...EXAMPLE_SPEC_INPUT, disorder: { from: 15, to: 18, step: 0 } } }).error?.issues ?? [];
+      const issues = CampaignInput.safeParse({ ...input, spec: { ...EXAMPLE_CAMPAIGN_SPEC, disorder: { from: 15, to: 18, step: 0 } } }).error?.issues ?? [];
       expect(issues.map((i) => [i.path, i.message])).toEqual([[['spec', 'disorder', 'step'], 'step must be greater than 0']]);
     });
 

@@ -4,3 +4,4 @@ export * from './pilot-fit';
 export * from './notices';
 export * from './estimate-report';
 export * from './campaign.schema';
+export * from './example-spec';

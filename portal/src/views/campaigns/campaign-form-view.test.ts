@@ -3,6 +3,7 @@ import { flushPromises, mount } from '@vue/test-utils';
 import { createPinia, setActivePinia } from 'pinia';
 import ConfirmationService from 'primevue/confirmationservice';
 import PrimeVue from 'primevue/config';
+import Select from 'primevue/select';
 import ToastService from 'primevue/toastservice';
 import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
 import { defineComponent } from 'vue';
@@ -154,6 +155,22 @@ describe('CampaignFormView', { timeout: 20_000 }, () => {
       expect(wrapper.get('#disorder-step-error').text()).toBe('Step must be greater than 0');
       expect(field(wrapper, 'disorder-step').attributes('aria-describedby')).toContain('disorder-step-error');
       expect(wrapper.find('[data-testid="live-stale"]').exists()).toBe(true);
+    });
+  });
+
+  describe('choosing', () => {
+    it('should show the options of the method chosen in its select', async () => {
+      const { wrapper } = await mountForm();
+      expect(wrapper.find('[data-testid="options-transfer-matrix"]').exists()).toBe(true);
+
+      const method = wrapper.findAllComponents(Select).find((s) => s.attributes('data-testid') === 'spec-method')!;
+      expect(method.props('modelValue')).toBe('transfer-matrix');
+      method.vm.$emit('update:modelValue', 'kernel-polynomial');
+      await flushPromises();
+
+      expect(wrapper.find('[data-testid="options-transfer-matrix"]').exists()).toBe(false);
+      expect(wrapper.find('[data-testid="options-kernel-polynomial"]').exists()).toBe(true);
+      expect(wrapper.get('label[for="spec-method"]').text()).toBe('Method');
     });
   });
 

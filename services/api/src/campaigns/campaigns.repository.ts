@@ -113,7 +113,10 @@ export const campaignsRepository = {
     }
     if (q.scope === 'mine') and.push({ ownerPersonId: who.personId });
     if (q.scope === 'my-groups') and.push({ groupId: { [Op.in]: myGroupsSql(who.personId) } });
-    if (q.q) and.push({ title: { [Op.iLike]: `%${q.q.replace(/[\\%_]/g, '\\$&')}%` } });
+    if (q.q) {
+      const pattern = `%${q.q.replace(/[\\%_]/g, '\\$&')}%`;
+      and.push({ [Op.or]: [{ title: { [Op.iLike]: pattern } }, { abstract: { [Op.iLike]: pattern } }] });
+    }
     if (q.state) and.push({ state: q.state });
     if (q.roundId) and.push({ roundId: q.roundId });
     if (q.groupId) and.push({ groupId: q.groupId });

@@ -228,6 +228,8 @@ describe('campaigns', () => {
       expect((await list(researcherToken, 'dimension=2')).items.some((c) => c.id === mine.id)).toBe(false);
       expect((await list(committeeToken, 'limit=200')).items.some((c) => c.state === 'draft')).toBe(false);
       expect((await list(adminToken, 'q=List%20filter%20probe')).total).toBe(1);
+      const byAbstract = await draft({ abstract: 'Mentions the quasiperiodic Aubry-André limit once, to be found by it.' });
+      expect((await list(researcherToken, 'q=aubry-andr')).items.map((c) => c.id)).toEqual([byAbstract.id]);
     });
 
     it('should export the filtered list as CSV', async () => {

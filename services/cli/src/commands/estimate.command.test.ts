@@ -1,26 +1,14 @@
 import { writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
-import { EstimateReportSchema } from '@localis/shared';
+import { EXAMPLE_CAMPAIGN_SPEC, EstimateReportSchema } from '@localis/shared';
 import { runCli, tempConfigDir } from '../../test/cli-harness';
 
 // Offline: no api, no sign-in. Every run points LOCALIS_URL at a port where nothing listens, so a
 // stray call to the portal would fail the test rather than pass by luck.
 const OFFLINE = { LOCALIS_URL: 'http://127.0.0.1:4' };
 
-const SPEC = {
-  model: 'anderson-box',
-  dimension: 3,
-  symmetryClass: 'AI',
-  sizes: [6, 8, 12, 16],
-  disorder: { from: 15, to: 18, step: 0.25 },
-  energies: [0],
-  realizations: 1,
-  method: 'transfer-matrix',
-  targetPrecision: 0.002,
-  methodOptions: { moments: 1024, randomVectors: 8, eigenpairs: 50, expectedLambda: 0.6 },
-  node: { coresPerNode: 64, memoryGiBPerNode: 256 },
-};
+const SPEC = EXAMPLE_CAMPAIGN_SPEC;
 
 let config: ReturnType<typeof tempConfigDir>;
 beforeEach(() => {

@@ -1,25 +1,11 @@
-import { CampaignSpec, estimateReport, type CampaignSpecInput } from '@localis/shared';
+import { CampaignSpec, EXAMPLE_CAMPAIGN_SPEC, estimateReport, type CampaignSpecInput } from '@localis/shared';
 import { mount } from '@vue/test-utils';
 import PrimeVue from 'primevue/config';
 import { describe, expect, it } from 'vitest';
 import { formatCoreHours } from '../../../lib/units';
 import EstimatePanel from './estimate-panel.vue';
 
-const BASE: CampaignSpecInput = {
-  model: 'anderson-box',
-  dimension: 3,
-  symmetryClass: 'AI',
-  sizes: [6, 8, 12, 16],
-  disorder: { from: 15, to: 18, step: 0.25 },
-  energies: [0],
-  realizations: 1,
-  method: 'transfer-matrix',
-  targetPrecision: 0.002,
-  methodOptions: { expectedLambda: 0.6 },
-  node: { coresPerNode: 64, memoryGiBPerNode: 256 },
-};
-
-const reportOf = (overrides: Partial<CampaignSpecInput> = {}) => estimateReport(CampaignSpec.parse({ ...BASE, ...overrides }));
+const reportOf = (overrides: Partial<CampaignSpecInput> = {}) => estimateReport(CampaignSpec.parse({ ...EXAMPLE_CAMPAIGN_SPEC, ...overrides }));
 
 function mountPanel(props: InstanceType<typeof EstimatePanel>['$props']) {
   return mount(EstimatePanel, { props, global: { plugins: [[PrimeVue, { theme: 'none' }]] } });

@@ -42,6 +42,9 @@ export function useCampaignActions(campaign: Ref<Campaign | null>) {
       showSuccess(TRANSITIONS[action].success, updated.title);
     } catch (error) {
       showApiError(error, TRANSITIONS[action].failure);
+      // Someone else may have moved it meanwhile (a 409): show the campaign as it now stands.
+      pending.value = null;
+      await store.loadCurrent(current.id).catch(() => undefined);
     } finally {
       busy.value = false;
     }

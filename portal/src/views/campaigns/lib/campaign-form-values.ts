@@ -1,4 +1,4 @@
-import type { Campaign, CampaignInput, CampaignPatch, CampaignSpec, Goal, Method, Model, PilotTiming, SymmetryClass } from '@localis/shared';
+import { PilotSettings, type Campaign, type CampaignInput, type CampaignPatch, type CampaignSpec, type Goal, type Method, type Model, type PilotTiming, type SymmetryClass } from '@localis/shared';
 
 /**
  * What the campaign form's inputs edit. Numbers and lists are the text the person typed, so a
@@ -19,6 +19,8 @@ export interface SpecFormValues {
   methodOptions: { expectedLambda: string; reorthogonalizeEvery: string; moments: string; randomVectors: string; eigenpairs: string };
   node: { coresPerNode: string; memoryGiBPerNode: string };
   pilotTimings: PilotTiming[];
+  /** The settings the pilots ran with, captured when they were read in. */
+  pilotSettings: PilotSettings | null;
 }
 
 export type DisorderMode = 'range' | 'values';
@@ -90,7 +92,25 @@ export function toSpecInput(v: SpecFormValues): unknown {
     methodOptions: options,
     node: { coresPerNode: parseNumber(v.node.coresPerNode), memoryGiBPerNode: parseNumber(v.node.memoryGiBPerNode) },
     pilotTimings: v.pilotTimings.length > 0 ? v.pilotTimings : undefined,
+    pilotSettings: v.pilotTimings.length > 0 && v.pilotSettings ? v.pilotSettings : undefined,
   };
+}
+
+/**
+ * The plan's settings as they stand, to keep with pilot timings read in now: if the plan's
+ * precision or options change later, the estimate scales the pilots by the ratio of operations.
+ */
+export function pilotSettingsOf(v: SpecFormValues): PilotSettings | null {
+  const input = toSpecInput(v) as { targetPrecision?: number; methodOptions?: Record<string, number | undefined> };
+  const eps = input.targetPrecision;
+  const options = Object.fromEntries(Object.entries(input.methodOptions ?? {}).filter(([, x]) => typeof x === 'number' && Number.isFinite(x)));
+  const parsed = PilotSettings.safeParse({
+    method: v.method,
+    symmetryClass: v.symmetryClass,
+    ...(typeof eps === 'number' && Number.isFinite(eps) ? { targetPrecision: eps } : {}),
+    methodOptions: options,
+  });
+  return parsed.success ? parsed.data : { method: v.method, symmetryClass: v.symmetryClass };
 }
 
 /** The form's values in the shape `CampaignInput` parses (not yet checked). */
@@ -136,6 +156,7 @@ export function specFormValues(spec: CampaignSpec): SpecFormValues {
     },
     node: { coresPerNode: String(spec.node.coresPerNode), memoryGiBPerNode: String(spec.node.memoryGiBPerNode) },
     pilotTimings: spec.pilotTimings ? spec.pilotTimings.map((t) => ({ ...t })) : [],
+    pilotSettings: spec.pilotSettings ?? null,
   };
 }
 
@@ -178,6 +199,7 @@ export function newCampaignValues(): CampaignFormValues {
       methodOptions: { expectedLambda: '', reorthogonalizeEvery: '', moments: '', randomVectors: '', eigenpairs: '' },
       node: { coresPerNode: '64', memoryGiBPerNode: '256' },
       pilotTimings: [],
+      pilotSettings: null,
     },
   };
 }
