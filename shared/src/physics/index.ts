@@ -1,1 +1,3 @@
 export * from './reference-values';
+export * from './random';
+export * from './transfer-matrix';
