@@ -2,6 +2,7 @@ import { Command, CommanderError } from 'commander';
 import { estimateCommand } from './commands/estimate.command';
 import { loginCommand } from './commands/login.command';
 import { logoutCommand } from './commands/logout.command';
+import { tmmCommand } from './commands/tmm.command';
 import { whoamiCommand } from './commands/whoami.command';
 import { EXIT, formatError, isCliError } from './lib/cli-error';
 import { CLI_VERSION } from './lib/version';
@@ -25,6 +26,7 @@ Start with:
 
 Offline, without signing in:
   $ localis estimate spec.json                    # core-hours and memory of a campaign spec
+  $ localis tmm --dim 3 --width 6 --disorder 16.5 # Lambda = xi/L by the transfer-matrix kernel
 
 Environment:
   LOCALIS_URL         portal address; wins over the stored profile
@@ -32,10 +34,10 @@ Environment:
   LOCALIS_CONFIG_DIR  where credentials.json is kept (default ~/.config/localis)
   LOCALIS_DEBUG       set to 1 to show where an unexpected error happened
 
-Exit codes: 0 ok, 1 failed, 2 usage error, 3 not signed in or token refused.`,
+Exit codes: 0 ok, 1 failed, 2 usage error, 3 not signed in or token refused, 130 cancelled (Ctrl-C).`,
   );
 
-for (const command of [loginCommand(), whoamiCommand(), logoutCommand(), estimateCommand()]) {
+for (const command of [loginCommand(), whoamiCommand(), logoutCommand(), estimateCommand(), tmmCommand()]) {
   // addCommand() does not pass these down by itself, unlike .command().
   program.addCommand(command.copyInheritedSettings(program));
 }

@@ -1,4 +1,4 @@
-import { spawn } from 'node:child_process';
+import { spawn, type ChildProcess } from 'node:child_process';
 import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
@@ -19,9 +19,13 @@ export function tempConfigDir(): { dir: string; remove: () => void } {
 
 /**
  * Run the real `localis` as a user would, in a child process. Stdin is a pipe that is closed
- * after `input`, which is how a batch script (never a terminal) looks to the CLI.
+ * after `input`, which is how a batch script (never a terminal) looks to the CLI. `onSpawn` is
+ * handed the child, e.g. to press Ctrl-C (send SIGINT) while it runs.
  */
-export function runCli(args: string[], opts: { configDir: string; input?: string; env?: Record<string, string> }): Promise<CliResult> {
+export function runCli(
+  args: string[],
+  opts: { configDir: string; input?: string; env?: Record<string, string>; onSpawn?: (child: ChildProcess) => void },
+): Promise<CliResult> {
   const env: NodeJS.ProcessEnv = { ...process.env, LOCALIS_CONFIG_DIR: opts.configDir, ...opts.env };
   // The developer's own shell settings must not leak into what is being tested.
   for (const name of ['LOCALIS_URL', 'LOCALIS_TOKEN', 'LOCALIS_DEBUG']) if (!opts.env?.[name]) delete env[name];
@@ -34,6 +38,7 @@ export function runCli(args: string[], opts: { configDir: string; input?: string
     child.on('error', reject);
     child.on('close', (code) => resolvePromise({ code, stdout, stderr }));
     child.stdin.end(opts.input ?? '');
+    opts.onSpawn?.(child);
   });
 }
 
