@@ -9,13 +9,13 @@ describe('localis', () => {
     it('should list the commands, the environment and the exit codes when run with --help', async () => {
       const r = await runCli(['--help'], { configDir: config.dir });
       expect(r.code).toBe(0);
-      for (const command of ['login', 'whoami', 'logout', 'estimate', 'tmm']) expect(r.stdout).toMatch(new RegExp(`^  ${command} `, 'm'));
+      for (const command of ['login', 'whoami', 'logout', 'estimate', 'tmm', 'analyze']) expect(r.stdout).toMatch(new RegExp(`^  ${command} `, 'm'));
       expect(r.stdout).toContain('LOCALIS_TOKEN');
       expect(r.stdout).toContain('Exit codes: 0 ok, 1 failed, 2 usage error, 3 not signed in');
     });
 
     it('should show an example when a command is asked for its help', async () => {
-      for (const command of ['login', 'whoami', 'logout', 'estimate', 'tmm']) {
+      for (const command of ['login', 'whoami', 'logout', 'estimate', 'tmm', 'analyze']) {
         const r = await runCli([command, '--help'], { configDir: config.dir });
         expect(r.code).toBe(0);
         expect(r.stdout).toContain('Examples:');

@@ -1,4 +1,5 @@
 import { Command, CommanderError } from 'commander';
+import { analyzeCommand } from './commands/analyze.command';
 import { estimateCommand } from './commands/estimate.command';
 import { loginCommand } from './commands/login.command';
 import { logoutCommand } from './commands/logout.command';
@@ -27,6 +28,7 @@ Start with:
 Offline, without signing in:
   $ localis estimate spec.json                    # core-hours and memory of a campaign spec
   $ localis tmm --dim 3 --width 6 --disorder 16.5 # Lambda = xi/L by the transfer-matrix kernel
+  $ localis analyze lambda.csv                    # W_c and nu by finite-size scaling
 
 Environment:
   LOCALIS_URL         portal address; wins over the stored profile
@@ -37,7 +39,7 @@ Environment:
 Exit codes: 0 ok, 1 failed, 2 usage error, 3 not signed in or token refused, 130 cancelled (Ctrl-C).`,
   );
 
-for (const command of [loginCommand(), whoamiCommand(), logoutCommand(), estimateCommand(), tmmCommand()]) {
+for (const command of [loginCommand(), whoamiCommand(), logoutCommand(), estimateCommand(), tmmCommand(), analyzeCommand()]) {
   // addCommand() does not pass these down by itself, unlike .command().
   program.addCommand(command.copyInheritedSettings(program));
 }
