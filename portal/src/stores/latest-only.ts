@@ -2,6 +2,13 @@
  * For list loads that can overlap (a person pages quickly): only the answer to the latest
  * request may land in the store; older ones are aborted and ignored.
  */
+/** Bumped at sign-out: answers to requests made before it belong to the last person and are dropped. */
+let generation = 0;
+
+export function forgetRequestsInFlight(): void {
+  generation++;
+}
+
 export function latestOnly() {
   let controller: AbortController | null = null;
   return {
@@ -9,7 +16,8 @@ export function latestOnly() {
       controller?.abort();
       const mine = new AbortController();
       controller = mine;
-      return { signal: mine.signal, isCurrent: () => controller === mine };
+      const born = generation;
+      return { signal: mine.signal, isCurrent: () => controller === mine && born === generation };
     },
   };
 }

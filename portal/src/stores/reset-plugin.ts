@@ -1,4 +1,5 @@
 import type { PiniaPluginContext, StoreGeneric } from 'pinia';
+import { forgetRequestsInFlight } from './latest-only';
 
 /**
  * Gives every store, setup stores included, a `$reset()` back to the state it was created
@@ -18,5 +19,6 @@ export function resetPlugin({ store }: PiniaPluginContext): void {
 
 /** Back to a signed-out app: every store loses what it held about the last person. */
 export function resetAllStores(): void {
+  forgetRequestsInFlight();
   for (const store of stores) store.$reset();
 }
