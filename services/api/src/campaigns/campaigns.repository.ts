@@ -98,6 +98,8 @@ export function derivedColumns(spec: CampaignSpec, report: EstimateReport) {
   };
 }
 
+const LIST_EXCLUDED = ['spec', 'estimate', 'notices', 'abstract', 'justification'];
+
 const SORT_COLUMNS: Record<string, unknown[]> = {
   groupName: [{ model: ResearchGroup, as: 'group' }, 'name'],
   roundName: [{ model: Round, as: 'round' }, 'name'],
@@ -126,13 +128,13 @@ export const campaignsRepository = {
     const { field, direction } = parseSort(q.sort);
     // Unsubmitted campaigns have no submission time: they go last whichever way one sorts.
     const first: any[] = field === 'submittedAt' ? [literal(`"Campaign"."submitted_at" ${direction} NULLS LAST`)] : [...(SORT_COLUMNS[field] ?? [field]), direction];
-    const { rows, count } = await Campaign.findAndCountAll({
-      where: and.length ? { [Op.and]: and } : {},
-      include,
-      order: [first as any, ['id', 'ASC']],
-      limit: q.limit,
-      offset: q.offset,
-    });
+    const where = and.length ? { [Op.and]: and } : {};
+    // A list needs the summary only: the spec, estimate and texts (kilobytes of JSON each) stay
+    // behind, and the count runs without the joins the names need.
+    const [rows, count] = await Promise.all([
+      Campaign.findAll({ where, attributes: { exclude: LIST_EXCLUDED }, include, order: [first as any, ['id', 'ASC']], limit: q.limit, offset: q.offset }),
+      Campaign.count({ where }),
+    ]);
     return { items: rows.map(toSummary), total: count, limit: q.limit, offset: q.offset };
   },
 
