@@ -1,5 +1,5 @@
 import { cpus } from 'node:os';
-import { analyzeTable, DEFAULT_FLOPS_PER_CORE, DEFAULT_REORTHOGONALIZE_EVERY, jobCost, runTransferMatrix, syntheticScalingTable } from '@localis/shared';
+import { analyzeTable, DEFAULT_FLOPS_PER_CORE, DEFAULT_REORTHOGONALIZE_EVERY, runTransferMatrix, syntheticScalingTable, transferMatrixOperationsPerSlice } from '@localis/shared';
 
 /**
  * `npm run bench:physics`: how fast the transfer-matrix kernel runs on one core of this machine,
@@ -19,11 +19,7 @@ const CASES = [
 ];
 
 function operationsPerSlice(dimension: 1 | 2 | 3, width: number): number {
-  const cost = jobCost(
-    { method: 'transfer-matrix', dimension, symmetryClass: 'AI', targetPrecision: 0.5, methodOptions: { expectedLambda: 1, reorthogonalizeEvery: Q } },
-    width,
-  );
-  return cost.operations / cost.slices!;
+  return transferMatrixOperationsPerSlice(dimension, width, Q);
 }
 
 /** A whole number of re-orthonormalization periods, rounded to two significant digits so the counts read well. */

@@ -69,6 +69,16 @@ interface JobCost {
   slices: number | null;
 }
 
+/**
+ * Real operations of one transfer-matrix slice on an L^(d-1) cross-section: the sparse slice
+ * (2d-1 entries per row) times the 2N_ch x N_ch block, 2 flops each, plus a Householder QR of that
+ * block (2mn^2 - 2n^3/3 = 10/3 N_ch^3) every q slices. The kernel's own run-time guard uses it too.
+ */
+export function transferMatrixOperationsPerSlice(dimension: 1 | 2 | 3, size: number, reorthogonalizeEvery: number): number {
+  const nch = size ** (dimension - 1);
+  return 2 * (2 * dimension - 1) * nch ** 2 + ((10 / 3) * nch ** 3) / reorthogonalizeEvery;
+}
+
 /** Operations and memory of one job of size L: the heart of the model, one formula per method. */
 export function jobCost(spec: Pick<CampaignSpec, 'method' | 'dimension' | 'symmetryClass' | 'targetPrecision' | 'methodOptions'>, size: number): JobCost {
   const d = spec.dimension;
@@ -83,9 +93,7 @@ export function jobCost(spec: Pick<CampaignSpec, 'method' | 'dimension' | 'symme
       const eps = spec.targetPrecision ?? 0.01;
       // The relative nudge keeps a whole count whole: 0.6 × 43 / 0.002² is 6450000.000000001 in floating point.
       const slices = Math.ceil(((o.expectedLambda * size) / eps ** 2) * (1 - 1e-12));
-      // Per slice: the sparse slice (2d-1 entries per row) times the 2N_ch x N_ch block, 2 flops each,
-      // plus a Householder QR of that block (2mn^2 - 2n^3/3 = 10/3 N_ch^3) every q slices.
-      const perSlice = 2 * (2 * d - 1) * nch ** 2 + ((10 / 3) * nch ** 3) / o.reorthogonalizeEvery;
+      const perSlice = transferMatrixOperationsPerSlice(d, size, o.reorthogonalizeEvery);
       // The block and a QR workspace of the same shape, plus one slice of on-site energies.
       const memoryBytes = (2 * 2 * nch * nch + nch) * bytesPerEntry;
       return { operations: slices * perSlice * cf, memoryBytes, slices };

@@ -12,3 +12,4 @@ export * from './beta-function';
 export * from './scaling-analysis';
 export * from './synthetic-scaling-table';
 export * from './data-collapse';
+export * from './spot-check';

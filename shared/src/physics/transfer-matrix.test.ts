@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { ANDERSON_3D_ORTHOGONAL } from './reference-values';
-import { runTransferMatrix, TransferMatrixCancelled } from './transfer-matrix';
+import { expectedTransferMatrixRun, runTransferMatrix, TransferMatrixCancelled, TransferMatrixTooLong } from './transfer-matrix';
 
 /** Within k combined standard errors. */
 const within = (value: number, expected: number, err: number, k = 3) => Math.abs(value - expected) <= k * err;
@@ -95,6 +95,14 @@ describe('transfer-matrix kernel', { timeout: 60_000 }, () => {
       ).toThrow(TransferMatrixCancelled);
       expect(seen.length).toBeGreaterThan(3);
       expect(seen.every((f, i) => f >= 0 && f <= 1 && (i === 0 || f >= seen[i - 1]))).toBe(true);
+    });
+
+    it('should refuse a run expected to take hours unless it is allowed', () => {
+      // 3D, L = 40 at 0.1 %: 4e7 slices x ~2.8e9 operations, years at 5e8 operations/s.
+      const big = { dimension: 3 as const, width: 40, disorder: 16.5, precision: 0.001 };
+      expect(expectedTransferMatrixRun(big).seconds).toBeGreaterThan(3600);
+      expect(() => runTransferMatrix(big)).toThrow(TransferMatrixTooLong);
+      expect(expectedTransferMatrixRun({ dimension: 3, width: 4, precision: 0.01 }).seconds).toBeLessThan(60);
     });
 
     it.each([

@@ -1,3 +1,4 @@
+import { transferMatrixOperationsPerSlice } from '../campaigns/cost-model';
 import { SeededRandom } from './random';
 
 /**
@@ -28,6 +29,8 @@ export interface TransferMatrixInput {
   progressEvery?: number;
   /** Asked at every re-orthonormalization; true stops the run, which then throws `TransferMatrixCancelled`. */
   isCancelled?: () => boolean;
+  /** Runs expected to take longer than LONG_RUN_SECONDS are refused unless this is set. */
+  allowLong?: boolean;
 }
 
 export interface TransferMatrixProgress {
@@ -51,6 +54,28 @@ export interface TransferMatrixResult {
   lambda: number;
   lambdaErr: number;
   seconds: number;
+}
+
+/**
+ * Well below what one core sustains on this kernel (`npm run bench:physics`), so a run refused as
+ * too long would really have been long.
+ */
+export const CONSERVATIVE_OPERATIONS_PER_SECOND = 5e8;
+/** Longer than this needs `allowLong`: beyond a login node's patience and its usage rules. */
+export const LONG_RUN_SECONDS = 3600;
+
+/** How long a run is expected to take: slices (Lambda L / eps^2 with Lambda = 1, or the count given) × operations. */
+export function expectedTransferMatrixRun(input: Pick<TransferMatrixInput, 'dimension' | 'width' | 'precision' | 'slices' | 'reorthogonalizeEvery'>) {
+  const fromPrecision = input.precision === undefined ? Number.POSITIVE_INFINITY : Math.ceil(input.width / input.precision ** 2);
+  const slices = Math.min(input.slices ?? Number.POSITIVE_INFINITY, fromPrecision);
+  const operationsPerSlice = transferMatrixOperationsPerSlice(input.dimension, input.width, input.reorthogonalizeEvery ?? DEFAULT_REORTHOGONALIZE_EVERY);
+  return { slices, operationsPerSlice, seconds: (slices * operationsPerSlice) / CONSERVATIVE_OPERATIONS_PER_SECOND };
+}
+
+export class TransferMatrixTooLong extends RangeError {
+  constructor(readonly expectedSeconds: number) {
+    super(`this run would take about ${Math.round(expectedSeconds / 3600)} h on one core; pass allowLong to run it anyway`);
+  }
 }
 
 export class TransferMatrixCancelled extends Error {
@@ -97,6 +122,8 @@ export function runTransferMatrix(input: TransferMatrixInput): TransferMatrixRes
   if (!(W >= 0)) throw new RangeError('disorder must be 0 or more');
   if (input.precision === undefined && input.slices === undefined) throw new RangeError('give a precision, a slice count, or both');
   const q = input.reorthogonalizeEvery ?? DEFAULT_REORTHOGONALIZE_EVERY;
+  const expected = expectedTransferMatrixRun(input);
+  if (expected.seconds > LONG_RUN_SECONDS && !input.allowLong) throw new TransferMatrixTooLong(expected.seconds);
   const maxSlices = input.slices ?? Number.POSITIVE_INFINITY;
   const started = performance.now();
 

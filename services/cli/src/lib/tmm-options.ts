@@ -1,4 +1,4 @@
-import { DEFAULT_REORTHOGONALIZE_EVERY, jobCost, type ErrorDetail, type TransferMatrixInput } from '@localis/shared';
+import { CONSERVATIVE_OPERATIONS_PER_SECOND, DEFAULT_REORTHOGONALIZE_EVERY, expectedTransferMatrixRun, LONG_RUN_SECONDS, type ErrorDetail, type TransferMatrixInput } from '@localis/shared';
 import { CliError, EXIT } from './cli-error';
 
 /** The options of `localis tmm` as commander hands them over: text, checked here. */
@@ -30,26 +30,7 @@ export interface TmmPlan {
 
 export const DEFAULT_PRECISION = 0.01;
 export const DEFAULT_SEED = 1;
-/**
- * Well below what one core of a current cluster node sustains on this kernel (`npm run
- * bench:physics`), so a run refused as too long would really have been long.
- */
-export const CONSERVATIVE_OPERATIONS_PER_SECOND = 5e8;
-/** Longer than this asks for --allow-long: beyond a login node's patience and its usage rules. */
-export const LONG_RUN_SECONDS = 3600;
 const MAX_SEED = 0xffff_ffff;
-
-/**
- * Floating-point operations per slice by the cost model's transfer-matrix formula, the one the
- * campaign estimate uses: 2(2d-1) N_ch^2 + (10/3) N_ch^3 / q. Real arithmetic (class AI), as the kernel.
- */
-export function operationsPerSlice(dimension: 1 | 2 | 3, width: number, reorthogonalizeEvery: number): number {
-  const cost = jobCost(
-    { method: 'transfer-matrix', dimension, symmetryClass: 'AI', targetPrecision: 0.5, methodOptions: { expectedLambda: 1, reorthogonalizeEvery } },
-    width,
-  );
-  return cost.operations / cost.slices!;
-}
 
 /** A plain decimal number as people type it (`16.5`, `-1`, `1e5`); not hex, not empty, not `Infinity`. */
 const NUMBER = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
@@ -123,12 +104,14 @@ export function planTmm(raw: TmmRawOptions): TmmPlan {
 
   const d = dimension!;
   const L = width!;
+  // The kernel's own estimate: the CLI refuses with a readable message before starting a worker.
+  const expected = expectedTransferMatrixRun({ dimension: d, width: L, precision, slices, reorthogonalizeEvery: q });
   const fromPrecision = precision === undefined ? Number.POSITIVE_INFINITY : Math.ceil(L / precision ** 2);
-  const expectedSlices = Math.min(slices ?? Number.POSITIVE_INFINITY, fromPrecision);
-  const perSlice = operationsPerSlice(d, L, q);
-  const expectedSeconds = (expectedSlices * perSlice) / CONSERVATIVE_OPERATIONS_PER_SECOND;
+  const expectedSlices = expected.slices;
+  const perSlice = expected.operationsPerSlice;
+  const expectedSeconds = expected.seconds;
   const plan: TmmPlan = {
-    input: { dimension: d, width: L, disorder: disorder!, energy, precision, slices, seed, reorthogonalizeEvery: q },
+    input: { dimension: d, width: L, disorder: disorder!, energy, precision, slices, seed, reorthogonalizeEvery: q, allowLong: raw.allowLong },
     expectedSlices,
     operationsPerSlice: perSlice,
     expectedSeconds,
