@@ -113,6 +113,88 @@ describe('campaigns', () => {
     });
   });
 
+  describe('pilot timings, withdrawal and print', () => {
+    const browser = useBrowser();
+
+    it('should fit pasted pilot timings into the estimate, refuse a bad CSV beside the field, and withdraw and print a draft', async () => {
+      const page = browser.page;
+      const title = `Pilot-calibrated bars ${Date.now().toString(36)}`;
+      await signIn(page, INES.email);
+      await page.goto(portalUrl('/campaigns/new'));
+      await expect.poll(() => page.getByTestId('campaign-round').textContent()).toContain('Coldwater allocation round 2');
+      await page.getByTestId('campaign-title').fill(title);
+      await page.getByTestId('campaign-abstract').fill('Transfer-matrix bars whose cost comes from pilot jobs timed on fjell.');
+      await choose(page, 'campaign-machine', /fjell/);
+
+      // A CSV without its cores column is refused where it was pasted, and the default rate stays.
+      await page.getByTestId('pilot-csv').fill('size,seconds\n6,40\n8,230');
+      await page.getByTestId('pilot-read').click();
+      await expect.poll(() => page.getByTestId('pilot-problems').textContent()).toContain('missing: cores');
+      expect(await page.getByTestId('estimate-rate').textContent()).toContain('Default rate');
+
+      await page.getByTestId('pilot-csv').fill('size,seconds,cores\n6,41,1\n8,228,1\n10,890,1\n12,2630,1');
+      await page.getByTestId('pilot-read').click();
+      await page.getByTestId('pilot-fit').waitFor();
+      expect(Number(await page.getByTestId('pilot-r2').textContent())).toBeGreaterThan(0.99);
+      await expect.poll(() => page.getByTestId('estimate-rate').textContent()).toContain('4 pilot timings');
+      await screenshot(page, 'campaign-form-pilots');
+
+      await page.getByTestId('save-campaign').click();
+      await page.waitForURL((url) => /^\/campaigns\/[0-9a-f-]{36}$/.test(url.pathname));
+      const detailPath = new URL(page.url()).pathname;
+      await expect.poll(() => page.getByTestId('estimate-rate').textContent()).toContain('4 pilot timings');
+
+      await page.getByTestId('withdraw-campaign').click();
+      const dialog = page.getByTestId('transition-dialog');
+      await dialog.getByTestId('transition-note').fill('Folded into the larger campaign.');
+      await dialog.getByTestId('transition-confirm').click();
+      await expect.poll(() => page.getByTestId('campaign-state').first().textContent()).toContain('Withdrawn');
+      expect(await page.getByTestId('withdraw-campaign').count()).toBe(0);
+
+      await page.goto(portalUrl(`${detailPath}/print`));
+      const sheet = page.getByTestId('campaign-print');
+      await expect.poll(() => sheet.textContent()).toContain(title);
+      expect(await sheet.textContent()).toContain('Folded into the larger campaign.');
+      expect(await page.getByTestId('nav-campaigns').count()).toBe(0);
+      await screenshot(page, 'campaign-print');
+    });
+  });
+
+  describe('rounds', () => {
+    const browser = useBrowser();
+
+    it('should show errors beside the fields of an empty round and open a round once they are filled', async () => {
+      const page = browser.page;
+      const name = `Round e2e ${Date.now().toString(36)}`;
+      await signIn(page, demoPerson('dana.whitfield@coldwater-network.example').email);
+      await page.goto(portalUrl('/admin/rounds'));
+      await tableSettled(page.getByTestId('rounds-table'));
+      await page.getByTestId('add-round').click();
+      const dialog = page.getByTestId('round-dialog');
+      await dialog.waitFor();
+
+      await dialog.getByRole('button', { name: 'Open round' }).click();
+      await expect.poll(() => dialog.getByRole('alert').count()).toBeGreaterThan(1);
+      expect(await dialog.textContent()).toContain('Name needs at least 3 characters');
+
+      await dialog.getByTestId('round-name').fill(name);
+      // Dates typed into the boxes (local time), as a person types them.
+      for (const [id, text] of [['round-opens', '2026-11-01T00:00'], ['round-closes', '2027-06-30T23:59']] as const) {
+        await page.locator(`#${id}`).fill(text);
+        await page.locator(`#${id}`).press('Tab');
+        await expect.poll(() => page.locator(`#${id}`).inputValue()).toBe(text);
+      }
+      await dialog.getByTestId('pool-machine-0').fill('tarn-gpu');
+      await page.locator('#pool-0-hours').fill('250000');
+      await dialog.getByTestId('round-name').click();
+      await dialog.getByRole('button', { name: 'Open round' }).click();
+
+      await page.getByRole('alert').filter({ hasText: 'Round opened' }).first().waitFor();
+      await expect.poll(() => page.getByTestId('rounds-table').textContent()).toContain(name);
+      expect(await page.getByTestId('rounds-table').textContent()).toContain('tarn-gpu');
+    });
+  });
+
   describe('narrow window', () => {
     const browser = useBrowser({ viewport: { width: 768, height: 1000 } });
 

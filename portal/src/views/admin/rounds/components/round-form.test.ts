@@ -1,6 +1,6 @@
 import { RoundInput, type Round } from '@localis/shared';
 import { describe, expect, it } from 'vitest';
-import { emptyPool, formOf, poolErrors, poolTotal, roundChanges, toDate, toIso } from './round-form';
+import { emptyPool, formOf, poolErrors, poolTotal, roundChanges, fromLocalInput, toLocalInput } from './round-form';
 
 const round: Round = {
   id: '5f0c1a2b-3c4d-4e5f-8a9b-0c1d2e3f4a5b',
@@ -30,11 +30,13 @@ describe('round-form', () => {
     });
   });
 
-  describe('toDate and toIso', () => {
-    it('should turn an ISO time into a Date and back when the picker is used', () => {
-      expect(toIso(toDate('2027-01-15T00:00:00Z'))).toBe('2027-01-15T00:00:00.000Z');
-      expect(toDate('')).toBeNull();
-      expect(toIso(null)).toBe('');
+  describe('toLocalInput and fromLocalInput', () => {
+    it('should give back the same instant when a time goes into the box and out again, and nothing for nothing', () => {
+      expect(fromLocalInput(toLocalInput('2027-01-15T00:00:00Z'))).toBe('2027-01-15T00:00:00.000Z');
+      expect(toLocalInput('2027-01-15T00:00:00Z')).toMatch(/^\d{4}-\d{2}-\d{2}T\d{2}:\d{2}$/);
+      expect(toLocalInput('')).toBe('');
+      expect(fromLocalInput('')).toBe('');
+      expect(fromLocalInput('not a time')).toBe('');
     });
   });
 

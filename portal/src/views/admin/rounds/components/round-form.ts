@@ -25,15 +25,24 @@ export function formOf(round: Round | null): RoundForm {
   };
 }
 
-/** The date picker's value for an ISO time, and back. */
-export function toDate(iso: string): Date | null {
-  if (!iso) return null;
+/**
+ * An ISO time as a `datetime-local` box shows it (the reader's local time, to the minute), and
+ * back. A native box rather than the component library's date picker: that one drops typed
+ * date-times in 24-hour mode, so only a mouse could set a round's dates.
+ */
+export function toLocalInput(iso: string): string {
+  if (!iso) return '';
   const d = new Date(iso);
-  return Number.isNaN(d.getTime()) ? null : d;
+  if (Number.isNaN(d.getTime())) return '';
+  const two = (n: number) => String(n).padStart(2, '0');
+  return `${d.getFullYear()}-${two(d.getMonth() + 1)}-${two(d.getDate())}T${two(d.getHours())}:${two(d.getMinutes())}`;
 }
 
-export function toIso(value: Date | Date[] | (Date | null)[] | null | undefined): string {
-  return value instanceof Date && !Number.isNaN(value.getTime()) ? value.toISOString() : '';
+/** A `datetime-local` value (local time) as ISO UTC; '' when empty or not a time. */
+export function fromLocalInput(value: string): string {
+  if (!value) return '';
+  const d = new Date(value);
+  return Number.isNaN(d.getTime()) ? '' : d.toISOString();
 }
 
 interface Issue {
