@@ -11,6 +11,8 @@ export interface ScenarioRound {
   /** Months from the start of the current month. */
   opensMonths: number;
   closesMonths: number;
+  /** When its grants can no longer be used: a year after the round closes. */
+  allocationEndsMonths: number;
   pools: RoundPool[];
 }
 
@@ -34,8 +36,8 @@ export const OPEN_ROUND = '4d000000-0000-4000-8000-000000000002';
 export const CLOSED_ROUND = '4d000000-0000-4000-8000-000000000001';
 
 export const ROUNDS: ScenarioRound[] = [
-  { id: CLOSED_ROUND, name: 'Coldwater allocation round 1', opensMonths: -8, closesMonths: -5, pools: [{ machine: 'fjell', coreHours: 12_000_000 }, { machine: 'skerry-gpu', coreHours: 400_000 }] },
-  { id: OPEN_ROUND, name: 'Coldwater allocation round 2', opensMonths: -1, closesMonths: 3, pools: [{ machine: 'fjell', coreHours: 15_000_000 }, { machine: 'skerry-gpu', coreHours: 600_000 }] },
+  { id: CLOSED_ROUND, name: 'Coldwater allocation round 1', opensMonths: -8, closesMonths: -5, allocationEndsMonths: 7, pools: [{ machine: 'fjell', coreHours: 12_000_000 }, { machine: 'skerry-gpu', coreHours: 400_000 }] },
+  { id: OPEN_ROUND, name: 'Coldwater allocation round 2', opensMonths: -1, closesMonths: 3, allocationEndsMonths: 15, pools: [{ machine: 'fjell', coreHours: 15_000_000 }, { machine: 'skerry-gpu', coreHours: 600_000 }] },
 ];
 
 const node = { coresPerNode: 128, memoryGiBPerNode: 512 };
@@ -130,7 +132,7 @@ export const CAMPAIGNS: ScenarioCampaign[] = [
   },
   {
     id: campaign(6), ownerId: person(8), roundId: CLOSED_ROUND, state: 'partly-granted',
-    decision: { grantedShare: 0.6, message: 'Partly granted: the largest size is deferred to the next round.' },
+    decision: { grantedShare: 0.6, message: 'Partly granted: L = 64 and 128 in full and about half the realizations at L = 256, which self-average; ask for the rest of the largest size in the next round.' },
     input: {
       title: 'Disorder-limited density of states in nanowire channels',
       abstract: 'Kernel polynomial density of states of long disordered channels, to calibrate device models of the partner.',

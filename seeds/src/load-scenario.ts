@@ -1,16 +1,18 @@
 import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { dirname, join } from 'node:path';
 import { hashToken } from '@localis/api/tokens';
-import { createServices, SYSTEM_CONTEXT, type Services } from '@localis/api/services';
+import { createServices, type Services } from '@localis/api/services';
 import type { Database } from '@localis/api/db';
 import { CampaignInput, TOKEN_SCOPES, type Settings } from '@localis/shared';
 import { ApiToken, Campaign, Institution, Person, ResearchGroup, Round } from '@localis/api/db';
-import { GROUPS, INSTITUTIONS, PEOPLE, type ScenarioPerson } from './scenario';
+import { GROUPS, INSTITUTIONS, PEOPLE } from './scenario';
 import { CAMPAIGNS, ROUNDS } from './campaigns-scenario';
+import { loadReviews, type ReviewCounts } from './load-reviews';
+import { loadRuns, type RunCounts } from './load-runs';
+import { adminContext, personContext, scenarioPerson, SEED_CONTEXT } from './seed-context';
 
-const SEED_CONTEXT = { ...SYSTEM_CONTEXT, userAgent: 'localis-demo-scenario' };
-
-export interface LoadReport {
+/** What a load added; all zero when the scenario was loaded already. */
+export interface LoadReport extends ReviewCounts, RunCounts {
   institutions: number;
   people: number;
   groups: number;
@@ -20,13 +22,18 @@ export interface LoadReport {
   campaigns: number;
 }
 
+const EMPTY_REPORT: Readonly<LoadReport> = {
+  institutions: 0, people: 0, groups: 0, members: 0, tokens: 0, rounds: 0, campaigns: 0, assignments: 0, conflicts: 0, reviews: 0, runs: 0, refunds: 0, adjustments: 0,
+};
+
 /**
- * Load the demo scenario through the services, so every rule and audit entry applies.
- * Repeatable: what exists (by fixed id) is left alone, so a second load changes nothing.
+ * Load the demo scenario through the services, so every rule, audit entry, ledger entry and
+ * notification applies. Repeatable: what exists (by fixed id, or looked up where the services
+ * make the id) is left alone, so a second load changes nothing.
  */
 export async function loadScenario(db: Database, settings: Settings): Promise<LoadReport> {
   const services = createServices(db, settings);
-  const report: LoadReport = { institutions: 0, people: 0, groups: 0, members: 0, tokens: 0, rounds: 0, campaigns: 0 };
+  const report: LoadReport = { ...EMPTY_REPORT };
 
   for (const i of INSTITUTIONS) {
     if (await Institution.findByPk(i.id)) continue;
@@ -52,6 +59,7 @@ export async function loadScenario(db: Database, settings: Settings): Promise<Lo
   }
   report.tokens = await ensureDemoTokens(services, settings);
   await loadRoundsAndCampaigns(services, report);
+  await loadRuns(services, report);
   return report;
 }
 
@@ -59,8 +67,8 @@ const monthsFrom = (start: Date, months: number) => new Date(Date.UTC(start.getU
 
 /**
  * Rounds and campaigns go through the same services as people do: drafted by their owners,
- * submitted by their PIs, reviewed and decided by the office. A closed round is loaded open, its
- * campaigns decided, and then closed, as it would have happened.
+ * submitted by their PIs, reviewed by the committee and decided by the office. A closed round is
+ * loaded open, its campaigns decided, and then closed, as it would have happened.
  */
 async function loadRoundsAndCampaigns(services: Services, report: LoadReport): Promise<void> {
   const monthStart = new Date();
@@ -68,18 +76,22 @@ async function loadRoundsAndCampaigns(services: Services, report: LoadReport): P
   for (const r of ROUNDS) {
     if (await Round.findByPk(r.id)) continue;
     const closesMonths = r.closesMonths < 1 ? 1 : r.closesMonths;
-    await services.rounds.create(admin, { name: r.name, opensAt: monthsFrom(monthStart, r.opensMonths), closesAt: monthsFrom(monthStart, closesMonths), pools: r.pools }, r.id);
+    await services.rounds.create(
+      admin,
+      { name: r.name, opensAt: monthsFrom(monthStart, r.opensMonths), closesAt: monthsFrom(monthStart, closesMonths), allocationEndsAt: monthsFrom(monthStart, r.allocationEndsMonths), pools: r.pools },
+      r.id,
+    );
     report.rounds++;
   }
   for (const c of CAMPAIGNS) {
     let current = await Campaign.findByPk(c.id);
     if (!current) {
-      const owner = personContext(PEOPLE.find((p) => p.id === c.ownerId)!);
+      const owner = personContext(scenarioPerson(c.ownerId));
       await services.campaigns.create(owner, CampaignInput.parse({ ...c.input, roundId: c.roundId }), c.id);
       report.campaigns++;
       current = (await Campaign.findByPk(c.id))!;
     }
-    await advance(services, c, current.state, Number(current.requestedCoreHours));
+    await advance(services, c, Number(current.requestedCoreHours), report);
   }
   // Rounds that lie in the past close once their campaigns have been decided (also after a load
   // that stopped half-way: whatever is still open that should not be is closed now).
@@ -89,45 +101,36 @@ async function loadRoundsAndCampaigns(services: Services, report: LoadReport): P
   }
 }
 
+const BEFORE_DECISION = ['submitted', 'in-review'];
+const stateOf = async (id: string) => (await Campaign.findByPk(id, { attributes: ['state'] }))!.state;
+
 /**
  * Move a demo campaign from where it stands to where the story has it, one step at a time through
- * the services, so a load that stopped half-way finishes the story when run again.
+ * the services, so a load that stopped half-way finishes the story when run again: the PI submits,
+ * the office assigns reviewers (which puts the proposal in review) and the committee reviews
+ * (`loadReviews`), then the office decides.
  */
-async function advance(services: Services, c: (typeof CAMPAIGNS)[number], state: string, requested: number): Promise<void> {
+async function advance(services: Services, c: (typeof CAMPAIGNS)[number], requested: number, report: LoadReport): Promise<void> {
   const admin = adminContext();
-  const group = GROUPS.find((g) => g.id === c.input.groupId)!;
-  const pi = personContext(PEOPLE.find((p) => p.id === group.piPersonId)!);
-  const owner = personContext(PEOPLE.find((p) => p.id === c.ownerId)!);
+  let state = await stateOf(c.id);
   if (c.state === 'withdrawn') {
-    if (state !== 'withdrawn') await services.campaigns.withdraw(owner, c.id, c.withdrawNote ?? null);
+    if (state !== 'withdrawn') await services.campaigns.withdraw(personContext(scenarioPerson(c.ownerId)), c.id, c.withdrawNote ?? null);
     return;
   }
-  const path = ['draft', 'submitted', 'in-review', c.state];
-  let at = path.indexOf(state);
-  if (at < 0 || state === c.state) return;
-  for (; path[at] !== c.state; at++) {
-    const next = path[at + 1];
-    if (next === 'submitted') await services.campaigns.submit(pi, c.id);
-    else if (next === 'in-review') await services.campaigns.startReview(admin, c.id);
-    else if (c.decision) {
-      const outcome = c.state as 'granted' | 'partly-granted' | 'declined';
-      await services.campaigns.recordDecision(admin, c.id, { outcome, grantedCoreHours: Math.round(requested * c.decision.grantedShare), message: c.decision.message });
-    }
+  if (state === 'draft' && c.state !== 'draft') {
+    const group = GROUPS.find((g) => g.id === c.input.groupId)!;
+    await services.campaigns.submit(personContext(scenarioPerson(group.piPersonId)), c.id);
+    state = 'submitted';
   }
-}
-
-/** A demo person acting in their own name, as the system (the audit log names no actor). */
-function personContext(p: ScenarioPerson) {
-  return { ...SEED_CONTEXT, principal: { personId: p.id, name: p.name, email: p.email, institutionId: p.institutionId, roles: p.roles, scopes: [...TOKEN_SCOPES], via: 'system' as const } };
-}
-
-/** Where a rule needs a person (group membership), the seed acts with the office's rights, as the system. */
-function adminContext() {
-  const admin = PEOPLE.find((p) => p.roles.includes('admin'))!;
-  return {
-    ...SEED_CONTEXT,
-    principal: { personId: admin.id, name: admin.name, email: admin.email, institutionId: admin.institutionId, roles: admin.roles, scopes: [...TOKEN_SCOPES], via: 'system' as const },
-  };
+  const reviewed = c.state === 'in-review' || !!c.decision;
+  if (!reviewed || !BEFORE_DECISION.includes(state)) return;
+  const planned = await loadReviews(services, c.id, requested, report);
+  // A proposal the story gives no reviews still goes through review before its decision.
+  if (!planned && state === 'submitted') await services.campaigns.startReview(admin, c.id);
+  if (c.decision) {
+    const outcome = c.state === 'granted' ? 'grant-all' : c.state === 'declined' ? 'decline' : 'grant-part';
+    await services.reviews.decide(admin, c.id, { outcome, coreHours: outcome === 'grant-part' ? Math.round(requested * c.decision.grantedShare) : undefined, message: c.decision.message });
+  }
 }
 
 /**

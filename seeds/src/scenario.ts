@@ -55,6 +55,9 @@ export const PEOPLE: ScenarioPerson[] = [
   { id: person(7), name: 'Aiko Tanaka', email: 'aiko.tanaka@brennmoor.example', institutionId: BRENNMOOR, roles: ['committee', 'researcher'], story: 'allocation committee' },
   { id: person(8), name: 'Sofia Lindqvist', email: 'sofia.lindqvist@orrin-qd.example', institutionId: ORRIN, roles: ['pi', 'researcher'], story: 'PI, Device Modelling group (partner)' },
   { id: person(9), name: 'Felix Marlow', email: 'felix.marlow@orrin-qd.example', institutionId: ORRIN, roles: ['billing'], story: 'billing contact at the partner' },
+  // A second member from Brennmoor: the Quantum Transport proposals (Kestrel) need two reviewers
+  // from outside Kestrel, and Henrik Solberg may not review them.
+  { id: person(10), name: 'Elena Marchetti', email: 'elena.marchetti@brennmoor.example', institutionId: BRENNMOOR, roles: ['committee'], story: 'allocation committee' },
 ];
 
 export const GROUPS: ScenarioGroup[] = [

@@ -13,3 +13,7 @@ export * from './mail.schema';
 export * from './physics';
 export * from './rounds';
 export * from './campaigns';
+export * from './reviews';
+export * from './ledger';
+export * from './runs';
+export * from './notifications';

@@ -5,6 +5,8 @@ export const MailMessage = z.object({
   to: z.array(z.email()).min(1),
   subject: z.string().min(1).max(300),
   text: z.string().min(1),
+  /** The same message as HTML, for mail readers that show it. */
+  html: z.string().min(1).optional(),
   /** Makes the send idempotent: a retried job with the same key is not sent twice. */
   dedupeKey: z.string().min(1).max(200),
 });

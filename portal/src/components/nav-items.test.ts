@@ -10,18 +10,19 @@ describe('nav-items', () => {
       expect(ids(['researcher', 'pi'])).toEqual(['nav-home', 'nav-campaigns', 'nav-profile']);
     });
 
-    it('should show Campaigns to the committee when the person only reviews', () => {
-      expect(ids(['committee'])).toEqual(['nav-home', 'nav-campaigns', 'nav-profile']);
+    it('should show Campaigns and the Committee queue to the committee when the person only reviews', () => {
+      expect(ids(['committee'])).toEqual(['nav-home', 'nav-campaigns', 'nav-committee', 'nav-profile']);
     });
 
     it('should leave Campaigns out when the person is only a billing contact', () => {
       expect(ids(['billing'])).toEqual(['nav-home', 'nav-profile']);
     });
 
-    it('should add Rounds, People, Institutions and Audit log when the person is an admin', () => {
+    it('should add the Committee queue, Rounds, People, Institutions and Audit log when the person is an admin', () => {
       expect(ids(['admin'])).toEqual([
         'nav-home',
         'nav-campaigns',
+        'nav-committee',
         'nav-profile',
         'nav-rounds',
         'nav-people',

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { formatBytes, formatCoreHours, formatCoreHoursExact, formatGiB, formatShare } from './units';
+import { formatBytes, formatCoreHours, formatCoreHoursExact, formatCoreHoursPrecise, formatCoreHoursSigned, formatGiB, formatShare } from './units';
 
 describe('units', () => {
   describe('formatCoreHours', () => {
@@ -28,6 +28,33 @@ describe('units', () => {
   describe('formatCoreHoursExact', () => {
     it('should write every digit when the figure must add up', () => {
       expect(formatCoreHoursExact(1_234_567)).toBe('1,234,567 core-hours');
+    });
+  });
+
+  describe('formatCoreHoursPrecise', () => {
+    it('should keep up to three decimals when the amount comes from the ledger', () => {
+      expect(formatCoreHoursPrecise(1_234.5)).toBe('1,234.5 core-hours');
+      expect(formatCoreHoursPrecise(0.125)).toBe('0.125 core-hours');
+      expect(formatCoreHoursPrecise(2_000_000)).toBe('2,000,000 core-hours');
+    });
+
+    it('should write a minus sign when the balance is below zero, and no sign for what rounds to zero', () => {
+      expect(formatCoreHoursPrecise(-1_536)).toBe('−1,536 core-hours');
+      expect(formatCoreHoursPrecise(-0.0001)).toBe('0 core-hours');
+    });
+
+    it('should give empty text when there is no number', () => {
+      expect(formatCoreHoursPrecise(null)).toBe('');
+      expect(formatCoreHoursPrecise(Number.POSITIVE_INFINITY)).toBe('');
+    });
+  });
+
+  describe('formatCoreHoursSigned', () => {
+    it('should always show the sign of what an entry adds or takes away', () => {
+      expect(formatCoreHoursSigned(500)).toBe('+500 core-hours');
+      expect(formatCoreHoursSigned(-12.5)).toBe('−12.5 core-hours');
+      expect(formatCoreHoursSigned(0)).toBe('0 core-hours');
+      expect(formatCoreHoursSigned(undefined)).toBe('');
     });
   });
 

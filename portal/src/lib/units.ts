@@ -29,6 +29,23 @@ export function formatCoreHoursExact(value: number | null | undefined): string {
   return `${Math.round(value).toLocaleString('en')} core-hours`;
 }
 
+/**
+ * Ledger amounts to the milli-core-hour the ledger keeps: "1,234.5 core-hours". A balance must
+ * add up to its entries, so nothing is rounded away beyond the third decimal.
+ */
+export function formatCoreHoursPrecise(value: number | null | undefined): string {
+  if (value === null || value === undefined || !Number.isFinite(value)) return '';
+  // Written from the absolute value: -0.0001 must not show as "-0".
+  const text = Math.abs(value).toLocaleString('en', { maximumFractionDigits: 3 });
+  return `${value < 0 && text !== '0' ? '−' : ''}${text} core-hours`;
+}
+
+/** A ledger entry's effect on the balance, always with its sign: "+500 core-hours", "−12.5 core-hours". */
+export function formatCoreHoursSigned(value: number | null | undefined): string {
+  const text = formatCoreHoursPrecise(value);
+  return text && !text.startsWith('−') && text !== '0 core-hours' ? `+${text}` : text;
+}
+
 /** Memory in binary units, three significant digits: "512 MiB", "1.5 GiB", "3.2 TiB". */
 export function formatBytes(bytes: number | null | undefined): string {
   if (bytes === null || bytes === undefined || !Number.isFinite(bytes)) return '';

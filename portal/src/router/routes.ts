@@ -6,6 +6,8 @@ import './route-meta';
 export const CAMPAIGN_READERS: Role[] = ['researcher', 'pi', 'committee', 'admin'];
 /** Drafting is for the people in research groups. */
 export const CAMPAIGN_AUTHORS: Role[] = ['researcher', 'pi'];
+/** Runs are recorded by the group's members and PI, and by the office. */
+export const RUN_RECORDERS: Role[] = ['researcher', 'pi', 'admin'];
 
 /** Every page of the portal. Later slices add their feature's routes here. */
 export const routes: RouteRecordRaw[] = [
@@ -66,6 +68,27 @@ export const routes: RouteRecordRaw[] = [
     meta: { title: 'Edit campaign', requiresAuth: true, roles: CAMPAIGN_AUTHORS },
   },
   {
+    path: '/campaigns/:id/ledger',
+    name: 'campaign-ledger',
+    component: () => import('../views/campaigns/campaign-ledger-view.vue'),
+    props: true,
+    meta: { title: 'Ledger', requiresAuth: true, roles: CAMPAIGN_READERS },
+  },
+  {
+    path: '/campaigns/:id/runs',
+    name: 'campaign-runs',
+    component: () => import('../views/campaigns/campaign-runs-view.vue'),
+    props: true,
+    meta: { title: 'Runs', requiresAuth: true, roles: CAMPAIGN_READERS },
+  },
+  {
+    path: '/campaigns/:id/runs/import',
+    name: 'campaign-runs-import',
+    component: () => import('../views/campaigns/campaign-import-view.vue'),
+    props: true,
+    meta: { title: 'Import runs', requiresAuth: true, roles: RUN_RECORDERS },
+  },
+  {
     path: '/campaigns/:id/print',
     name: 'campaign-print',
     component: () => import('../views/campaigns/campaign-print-view.vue'),
@@ -73,10 +96,30 @@ export const routes: RouteRecordRaw[] = [
     meta: { title: 'Campaign for print', requiresAuth: true, roles: CAMPAIGN_READERS, printable: true },
   },
   {
+    path: '/campaigns/:id/decision',
+    name: 'campaign-decision',
+    component: () => import('../views/campaigns/campaign-decision-view.vue'),
+    props: true,
+    meta: { title: 'Decide on a proposal', requiresAuth: true, roles: ['admin'] },
+  },
+  {
+    path: '/committee',
+    name: 'committee',
+    component: () => import('../views/committee/committee-queue-view.vue'),
+    meta: { title: 'Committee', requiresAuth: true, roles: ['committee', 'admin'] },
+  },
+  {
     path: '/admin/rounds',
     name: 'admin-rounds',
     component: () => import('../views/admin/rounds/rounds-view.vue'),
     meta: { title: 'Rounds', requiresAuth: true, roles: ['admin'] },
+  },
+  {
+    path: '/admin/rounds/:id/usage',
+    name: 'admin-round-usage',
+    component: () => import('../views/admin/rounds/round-usage-view.vue'),
+    props: true,
+    meta: { title: 'Pool usage', requiresAuth: true, roles: ['admin', 'committee'] },
   },
   {
     path: '/admin/people',

@@ -30,6 +30,11 @@ import { profileRoutes } from './profile/profile.router';
 import { tokensRoutes } from './tokens/tokens.router';
 import { roundsRoutes } from './rounds/rounds.router';
 import { campaignsRoutes } from './campaigns/campaigns.router';
+import { reviewsRoutes } from './reviews/reviews.router';
+import { ledgerRoutes } from './ledger/ledger.router';
+import { runsRoutes } from './runs/runs.router';
+import { notificationsRoutes } from './notifications/notifications.router';
+import { idempotency } from './http/idempotency';
 
 export const PORTAL_DIST = resolve(import.meta.dirname, '..', '..', '..', 'portal', 'dist');
 const VERSION = '0.1.0';
@@ -55,6 +60,10 @@ export function buildRoutes(deps: AppDeps, authController: ReturnType<typeof cre
     ...auditRoutes(),
     ...roundsRoutes(services.rounds),
     ...campaignsRoutes(services.campaigns),
+    ...reviewsRoutes(services.reviews),
+    ...ledgerRoutes(services.ledger),
+    ...runsRoutes(services.runs),
+    ...notificationsRoutes(services.notifications),
   ];
   let openapi: unknown;
   routes.push({
@@ -64,6 +73,9 @@ export function buildRoutes(deps: AppDeps, authController: ReturnType<typeof cre
   });
   return routes;
 }
+
+/** Room for MAX_IMPORT_BYTES of CSV with JSON escaping and the mapping around it. */
+const IMPORT_BODY_LIMIT = '6mb';
 
 export function createApp(deps: AppDeps) {
   const { settings: s, logger } = deps;
@@ -105,6 +117,8 @@ export function createApp(deps: AppDeps) {
       crossOriginEmbedderPolicy: false,
     }),
   );
+  // Scheduler accounting exports are larger than any other body (MAX_IMPORT_BYTES of CSV in JSON).
+  app.use(`${API_PREFIX}/campaigns/:id/runs/import`, express.json({ limit: IMPORT_BODY_LIMIT }));
   app.use(express.json({ limit: s.BODY_LIMIT }));
 
   const PgStore = connectPgSimple(session);
@@ -134,6 +148,7 @@ export function createApp(deps: AppDeps) {
       authorize(route.access),
       csrfProtection,
       validate(route.request),
+      idempotency,
       route.handler as (req: Request, res: Response, next: NextFunction) => unknown,
     ];
     app[route.method](fullPath(route), ...chain);

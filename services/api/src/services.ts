@@ -7,9 +7,15 @@ import { createSignInService } from './auth/sign-in.service';
 import { createTokensService } from './tokens/tokens.service';
 import { createRoundsService } from './rounds/rounds.service';
 import { createCampaignsService } from './campaigns/campaigns.service';
+import { createLedgerService } from './ledger/ledger.service';
+import { createRunsService } from './runs/runs.service';
+import { createReviewsService } from './reviews/reviews.service';
+import { createNotificationsService } from './notifications/notifications.service';
 
 /** The composition root of the rules: seeds, the api and the worker all go through these. */
 export function createServices(db: Database, s: Settings) {
+  const campaigns = createCampaignsService(db);
+  const ledger = createLedgerService(db, campaigns);
   return {
     people: createPeopleService(db, s.PUBLIC_URL),
     institutions: createInstitutionsService(db),
@@ -17,7 +23,11 @@ export function createServices(db: Database, s: Settings) {
     tokens: createTokensService(db),
     signIn: createSignInService(db),
     rounds: createRoundsService(db),
-    campaigns: createCampaignsService(db),
+    campaigns,
+    ledger,
+    runs: createRunsService(db, campaigns, ledger),
+    reviews: createReviewsService(db, campaigns, ledger),
+    notifications: createNotificationsService(db),
   };
 }
 export type Services = ReturnType<typeof createServices>;

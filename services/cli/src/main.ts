@@ -3,6 +3,7 @@ import { analyzeCommand } from './commands/analyze.command';
 import { estimateCommand } from './commands/estimate.command';
 import { loginCommand } from './commands/login.command';
 import { logoutCommand } from './commands/logout.command';
+import { runsCommand } from './commands/runs.command';
 import { tmmCommand } from './commands/tmm.command';
 import { whoamiCommand } from './commands/whoami.command';
 import { EXIT, formatError, isCliError } from './lib/cli-error';
@@ -25,6 +26,10 @@ Start with:
   $ localis login --url https://<portal address>   # paste an API token from your profile page
   $ localis whoami
 
+Record runs on a granted campaign (token scope "runs"):
+  $ localis runs add --campaign <id> --file run.json
+  $ localis runs list --campaign <id>
+
 Offline, without signing in:
   $ localis estimate spec.json                    # core-hours and memory of a campaign spec
   $ localis tmm --dim 3 --width 6 --disorder 16.5 # Lambda = xi/L by the transfer-matrix kernel
@@ -39,9 +44,14 @@ Environment:
 Exit codes: 0 ok, 1 failed, 2 usage error, 3 not signed in or token refused, 130 cancelled (Ctrl-C).`,
   );
 
-for (const command of [loginCommand(), whoamiCommand(), logoutCommand(), estimateCommand(), tmmCommand(), analyzeCommand()]) {
-  // addCommand() does not pass these down by itself, unlike .command().
-  program.addCommand(command.copyInheritedSettings(program));
+/** addCommand() does not pass the settings down by itself, unlike .command(); nor to `runs add`. */
+function inheritSettings(parent: Command, command: Command): Command {
+  command.copyInheritedSettings(parent);
+  for (const sub of command.commands) inheritSettings(command, sub);
+  return command;
+}
+for (const command of [loginCommand(), whoamiCommand(), logoutCommand(), runsCommand(), estimateCommand(), tmmCommand(), analyzeCommand()]) {
+  program.addCommand(inheritSettings(program, command));
 }
 
 // `localis whoami --json | head -1` closes the pipe early; that is not an error worth a stack.

@@ -1,10 +1,11 @@
 import 'dotenv/config';
-import { Worker } from 'bullmq';
+import { Queue, Worker } from 'bullmq';
 import { Redis } from 'ioredis';
 import { pino } from 'pino';
-import { loadSettings } from '@localis/shared';
+import { loadSettings, QUEUES } from '@localis/shared';
 import { openDatabase } from '@localis/api/db';
 import { JOBS } from './jobs';
+import { DAILY_SWEEP_EVERY_MS, DAILY_SWEEP_SCHEDULER_ID } from './jobs/daily-sweep.job';
 import { createOutboxDispatcher } from './outbox/outbox-dispatcher';
 
 const settings = loadSettings(process.env);
@@ -25,6 +26,15 @@ const workers = JOBS.map((job) => {
 });
 const dispatcher = createOutboxDispatcher(db, connection, logger);
 dispatcher.start();
+
+const sweepQueue = new Queue(QUEUES.dailySweep, { connection });
+sweepQueue
+  .upsertJobScheduler(
+    DAILY_SWEEP_SCHEDULER_ID,
+    { every: DAILY_SWEEP_EVERY_MS },
+    { name: 'daily-sweep', data: {}, opts: { attempts: 3, backoff: { type: 'exponential', delay: 60_000 }, removeOnComplete: { count: 200 }, removeOnFail: { count: 200 } } },
+  )
+  .catch((err) => logger.error({ err }, 'could not schedule the daily sweep'));
 logger.info(`worker running: ${JOBS.map((j) => j.name).join(', ')}`);
 
 let stopping = false;
@@ -34,6 +44,7 @@ async function shutdown(signal: string) {
   logger.info({ signal }, 'worker stopping');
   await dispatcher.close();
   await Promise.all(workers.map((w) => w.close()));
+  await sweepQueue.close();
   await Promise.allSettled([db.close(), connection.quit()]);
   process.exit(0);
 }

@@ -111,7 +111,18 @@ export const CampaignSummary = z
 export type CampaignSummary = z.infer<typeof CampaignSummary>;
 
 /** What the caller may do with this campaign now, so the portal shows only what will work. */
-export const CampaignPermissions = z.object({ edit: z.boolean(), submit: z.boolean(), withdraw: z.boolean(), startReview: z.boolean() });
+export const CampaignPermissions = z.object({
+  edit: z.boolean(),
+  submit: z.boolean(),
+  withdraw: z.boolean(),
+  startReview: z.boolean(),
+  /** The office may decide (grant all, part, none). */
+  decide: z.boolean(),
+  /** Granted, and the caller is in the group or the office (tokens need the runs scope). */
+  recordRuns: z.boolean(),
+  /** Granted, and the caller is the group's PI or the office. */
+  transfer: z.boolean(),
+});
 export type CampaignPermissions = z.infer<typeof CampaignPermissions>;
 
 export const Campaign = CampaignSummary.extend({
@@ -121,6 +132,8 @@ export const Campaign = CampaignSummary.extend({
   /** The estimate as the server computed it at the last save (see CampaignEstimate). */
   estimate: z.record(z.string(), z.unknown()),
   notices: z.array(Notice),
+  /** Core-hours granted by the decision (0 when declined, null before it). The ledger has the balance. */
+  grantedCoreHours: z.number().int().nullable(),
   history: z.array(CampaignEvent),
   can: CampaignPermissions,
 }).meta({ id: 'Campaign' });

@@ -50,7 +50,8 @@ export function csvCell(value: unknown): string {
     : value instanceof Date ? value.toISOString()
     : typeof value === 'object' ? JSON.stringify(value)
     : String(value);
-  if (/^[=+\-@\t\r]/.test(text)) text = `'${text}`;
+  // Numbers are data, not formulas: a debit of -1536 stays a number in a spreadsheet.
+  if (typeof value !== 'number' && /^[=+\-@\t\r]/.test(text)) text = `'${text}`;
   return /[",\n\r]/.test(text) ? `"${text.replace(/"/g, '""')}"` : text;
 }
 

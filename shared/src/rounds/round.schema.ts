@@ -32,6 +32,10 @@ export const Round = z
     name: z.string(),
     opensAt: z.iso.datetime(),
     closesAt: z.iso.datetime(),
+    /** Grants of the round can be used until then; what is left expires. */
+    allocationEndsAt: z.iso.datetime(),
+    /** How far below zero a run may take a grant, in % of the grant (0 = refuse such runs). */
+    overdraftPercent: z.number().int(),
     status: RoundStatus,
     pools: z.array(RoundPool),
     totalCoreHours: z.number().int(),
@@ -52,11 +56,21 @@ const RoundFields = z.object({
   opensAt: z.iso.datetime({ offset: true, message: 'opens must be a date and time, e.g. 2027-01-15T00:00:00Z' }),
   closesAt: z.iso.datetime({ offset: true, message: 'closes must be a date and time, e.g. 2027-03-31T23:59:59Z' }),
   pools: poolsField,
+  /** Left out when creating: a year after the round closes. */
+  allocationEndsAt: z.iso.datetime({ offset: true, message: 'allocation ends must be a date and time, e.g. 2028-03-31T23:59:59Z' }).optional(),
+  /** Left out when creating: 0, runs beyond the grant are refused. */
+  overdraftPercent: z.number().int('a whole percentage').min(0, 'the overdraft is 0 % or more').max(50, 'an overdraft may be at most 50 % of a grant').optional(),
 });
 
-const closesAfterOpens = (r: { opensAt?: string; closesAt?: string }, ctx: z.RefinementCtx) => {
+/** Default end of the allocation period: a year after the round closes. */
+export const DEFAULT_ALLOCATION_DAYS = 365;
+
+const closesAfterOpens = (r: { opensAt?: string; closesAt?: string; allocationEndsAt?: string }, ctx: z.RefinementCtx) => {
   if (r.opensAt && r.closesAt && new Date(r.closesAt) <= new Date(r.opensAt)) {
     ctx.addIssue({ code: 'custom', path: ['closesAt'], message: 'a round must close after it opens' });
+  }
+  if (r.closesAt && r.allocationEndsAt && new Date(r.allocationEndsAt) <= new Date(r.closesAt)) {
+    ctx.addIssue({ code: 'custom', path: ['allocationEndsAt'], message: 'the allocation period must end after the round closes' });
   }
 };
 

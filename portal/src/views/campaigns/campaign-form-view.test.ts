@@ -41,6 +41,7 @@ function draft(overrides: Partial<Campaign> = {}): Campaign {
     title: 'Critical disorder of the 3D Anderson model',
     abstract: 'Locate W_c at E = 0 by finite-size scaling of the Lyapunov exponent.',
     justification: '## Why\nBecause.',
+    grantedCoreHours: null,
     state: 'draft',
     groupId: GROUP.id,
     groupName: GROUP.name,
@@ -63,7 +64,7 @@ function draft(overrides: Partial<Campaign> = {}): Campaign {
     estimate: estimateCampaign(DRAFT_SPEC),
     notices: [],
     history: [],
-    can: { edit: true, submit: true, withdraw: true, startReview: false },
+    can: { edit: true, submit: true, withdraw: true, startReview: false, decide: false, recordRuns: false, transfer: false },
     ...overrides,
   };
 }
@@ -241,7 +242,7 @@ describe('CampaignFormView', { timeout: 20_000 }, () => {
     });
 
     it('should say the campaign cannot be changed when it is no longer a draft', async () => {
-      stored = draft({ state: 'submitted', can: { edit: false, submit: false, withdraw: true, startReview: false } });
+      stored = draft({ state: 'submitted', can: { edit: false, submit: false, withdraw: true, startReview: false, decide: false, recordRuns: false, transfer: false } });
       const { wrapper } = await mountForm(`/campaigns/${SAVED_ID}/edit`);
 
       expect(field(wrapper, 'campaign-not-editable').text()).toContain('is submitted: only drafts can be changed');

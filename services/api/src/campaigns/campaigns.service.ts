@@ -21,8 +21,9 @@ import { auditService } from '../audit/audit.service';
 import { groupsRepository } from '../groups/groups.repository';
 import { roundsRepository } from '../rounds/rounds.repository';
 import { campaignsRepository, derivedColumns, type CampaignRecord, type Visibility } from './campaigns.repository';
+import { notify } from '../notifications/notify';
 
-/** The outcome of a grant decision; the ledger issue adds the core-hour entries it implies. */
+/** The outcome of a grant decision; the reviews service checks the pool and writes the grant. */
 export interface Decision {
   outcome: 'granted' | 'partly-granted' | 'declined';
   grantedCoreHours: number;
@@ -30,6 +31,7 @@ export interface Decision {
 }
 
 const isOwner = (p: Principal, c: CampaignRecord) => c.ownerPersonId === p.personId;
+const isGranted = (c: { state: CampaignState }) => c.state === 'granted' || c.state === 'partly-granted';
 const isGroupPi = (p: Principal, c: { groupPiPersonId: string }) => c.groupPiPersonId === p.personId && p.roles.includes('pi');
 const canWrite = (p: Principal) => p.via !== 'token' || p.scopes.includes('write');
 
@@ -45,7 +47,7 @@ export function createCampaignsService(db: Database) {
     return c.groupPiPersonId === p.personId || (await groupsRepository.isMember(c.groupId, p.personId, tx));
   }
 
-  function permissions(p: Principal, c: CampaignRecord) {
+  function permissions(p: Principal, c: CampaignRecord, memberOf: boolean) {
     const mayWrite = canWrite(p);
     const ownerOrPi = isOwner(p, c) || isGroupPi(p, c);
     return {
@@ -53,12 +55,22 @@ export function createCampaignsService(db: Database) {
       submit: mayWrite && canTransition(c.state, 'submit') && isGroupPi(p, c),
       withdraw: mayWrite && canTransition(c.state, 'withdraw') && ownerOrPi,
       startReview: canTransition(c.state, 'start-review') && actsAsAdmin(p),
+      decide: canTransition(c.state, 'decide') && actsAsAdmin(p),
+      recordRuns: isGranted(c) && (p.via !== 'token' || p.scopes.includes('runs')) && (actsAsAdmin(p) || c.groupPiPersonId === p.personId || memberOf),
+      transfer: isGranted(c) && (actsAsAdmin(p) || isGroupPi(p, c)),
     };
   }
 
   async function detail(p: Principal, c: CampaignRecord, tx?: Transaction): Promise<Campaign> {
     const { groupPiPersonId: _pi, grantedCoreHours: _g, ...rest } = c;
-    return { ...rest, estimate: c.estimate as unknown as Campaign['estimate'], history: await campaignsRepository.history(c.id, tx), can: permissions(p, c) };
+    const memberOf = await groupsRepository.isMember(c.groupId, p.personId, tx);
+    return {
+      ...rest,
+      grantedCoreHours: c.grantedCoreHours,
+      estimate: c.estimate as unknown as Campaign['estimate'],
+      history: await campaignsRepository.history(c.id, tx),
+      can: permissions(p, c, memberOf),
+    };
   }
 
   /**
@@ -170,6 +182,7 @@ export function createCampaignsService(db: Database) {
           throw errors.conflict(`The round "${c.roundName}" is ${round?.status ?? 'gone'}; proposals can be submitted only while it is open. Move the draft to an open round.`);
         }
         await move(ctx, c, 'submitted', note, { submittedAt: new Date() }, tx);
+        await notify({ kind: 'proposal-submitted', campaignId: c.id }, tx);
         return detail(p, (await campaignsRepository.find(id, tx))!, tx);
       });
     },
@@ -197,19 +210,38 @@ export function createCampaignsService(db: Database) {
     },
 
     /**
-     * Record the office's decision. Not yet a route: the review-and-ledger work adds the route,
-     * the pool check and the ledger entries around it; the demo scenario uses it meanwhile.
+     * A campaign the caller may see, for other features' rules (reviews, ledger, runs); 404
+     * otherwise. `lock` takes the row for update, which serialises every change to its grant.
      */
-    recordDecision(ctx: RequestContext, id: string, decision: Decision): Promise<Campaign> {
-      const p = ctx.principal!;
-      return db.transaction(async (tx) => {
-        const c = await loadForChange(ctx, id, tx);
-        if (!actsAsAdmin(p)) throw errors.forbidden('Only the consortium office decides on grants.');
-        if (!canTransition(c.state, 'decide')) refuseMove(c, 'decide');
-        await move(ctx, c, decision.outcome, decision.message, { decidedAt: new Date(), grantedCoreHours: decision.outcome === 'declined' ? 0 : decision.grantedCoreHours }, tx);
-        return detail(p, (await campaignsRepository.find(id, tx))!, tx);
-      });
+    async findVisible(ctx: RequestContext, id: string, tx?: Transaction, lock = false): Promise<CampaignRecord> {
+      const c = await campaignsRepository.find(id, tx, lock);
+      if (!c || !(await canSee(ctx.principal!, c, tx))) throw errors.notFound('The campaign');
+      return c;
     },
+
+    /** Whether the caller may see the campaign (for lists that join campaigns). */
+    canSee: (ctx: RequestContext, c: CampaignRecord, tx?: Transaction) => canSee(ctx.principal!, c, tx),
+
+    isGroupMember: (c: CampaignRecord, personId: string, tx?: Transaction) =>
+      c.groupPiPersonId === personId ? Promise.resolve(true) : groupsRepository.isMember(c.groupId, personId, tx),
+
+    /** Move a locked campaign into review (the first assignment does it), inside the caller's transaction. */
+    async startReviewIn(ctx: RequestContext, c: CampaignRecord, note: string | null, tx: Transaction): Promise<void> {
+      if (!canTransition(c.state, 'start-review')) refuseMove(c, 'start-review');
+      await move(ctx, c, 'in-review', note, {}, tx);
+    },
+
+    /**
+     * Record the office's decision on a locked campaign inside the caller's transaction; the
+     * reviews service checks the pool and writes the grant to the ledger in the same one.
+     */
+    async applyDecision(ctx: RequestContext, c: CampaignRecord, decision: Decision, tx: Transaction): Promise<void> {
+      if (!actsAsAdmin(ctx.principal!)) throw errors.forbidden('Only the consortium office decides on grants.');
+      if (!canTransition(c.state, 'decide')) refuseMove(c, 'decide');
+      await move(ctx, c, decision.outcome, decision.message, { decidedAt: new Date(), grantedCoreHours: decision.outcome === 'declined' ? 0 : decision.grantedCoreHours }, tx);
+    },
+
+    detail: (ctx: RequestContext, c: CampaignRecord, tx?: Transaction) => detail(ctx.principal!, c, tx),
   };
 }
 export type CampaignsService = ReturnType<typeof createCampaignsService>;

@@ -100,7 +100,7 @@ describe('campaigns', () => {
       expect(c.requestedCoreHours).toBe(Math.ceil(estimateReport(CampaignSpec.parse(SPEC)).totalCoreHours));
       expect(c.estimate.rows).toHaveLength(4);
       expect(c.history.map((h) => [h.fromState, h.toState])).toEqual([[null, 'draft']]);
-      expect(c.can).toEqual({ edit: true, submit: false, withdraw: true, startReview: false });
+      expect(c.can).toEqual({ edit: true, submit: false, withdraw: true, startReview: false, decide: false, recordRuns: false, transfer: false });
       const audit = await AuditLog.findAll({ where: { targetType: 'campaign', targetId: c.id } });
       expect(audit.map((a) => a.action)).toEqual(['campaign.created']);
     });
@@ -166,7 +166,7 @@ describe('campaigns', () => {
       const decided = await draft();
       await call(piToken, 'POST', `/campaigns/${decided.id}/submit`);
       const admin = await createPerson(t, { roles: ['admin'], label: 'camp-decider' });
-      await t.services.campaigns.recordDecision(ctxOf(admin), decided.id, { outcome: 'granted', grantedCoreHours: 80, message: null });
+      await t.services.reviews.decide(ctxOf(admin), decided.id, { outcome: 'grant-all', message: 'Granted in full for the test.' });
       const late = await call(researcherToken, 'POST', `/campaigns/${decided.id}/withdraw`);
       expect(late.status).toBe(409);
       expect(((await late.json()) as { error: { message: string } }).error.message).toMatch(/granted/);
@@ -195,7 +195,7 @@ describe('campaigns', () => {
       expect((await call(readOnlyResearcher, 'POST', `/campaigns/${c.id}/withdraw`)).status).toBe(403);
       expect((await call(readOnlyPi, 'POST', `/campaigns/${c.id}/submit`)).status).toBe(403);
       const seen = (await (await call(readOnlyResearcher, 'GET', `/campaigns/${c.id}`)).json()) as Campaign;
-      expect(seen.can).toEqual({ edit: false, submit: false, withdraw: false, startReview: false });
+      expect(seen.can).toEqual({ edit: false, submit: false, withdraw: false, startReview: false, decide: false, recordRuns: false, transfer: false });
       expect(seen.state).toBe('draft');
     });
 

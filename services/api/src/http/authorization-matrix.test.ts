@@ -2,7 +2,8 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { BrowserSession, createInstitution, createPerson, startTestApp, SYSTEM, tokenFor, withToken, type TestApp } from '../../test/harness';
 import { ACTORS, MATRIX, MATRIX_MACHINE, MATRIX_SPEC, type Actor, type Fixtures } from './authorization-matrix';
 import type { RequestContext } from './principal';
-import { CampaignInput } from '@localis/shared';
+import { randomUUID } from 'node:crypto';
+import { CampaignInput, RunInput, TOKEN_SCOPES } from '@localis/shared';
 import { fullPath } from './route-registry';
 
 let t: TestApp;
@@ -48,7 +49,30 @@ beforeAll(async () => {
   const draftInput = CampaignInput.parse({ title: 'Matrix draft', abstract: 'A draft the authorization matrix reads and changes.', groupId: groupA.id, roundId: round.id, machine: MATRIX_MACHINE, spec: MATRIX_SPEC });
   const freshDraft = async () => (await t.services.campaigns.create(as(researcher), draftInput)).id;
   const freshSubmitted = async () => (await t.services.campaigns.submit(as(pi), await freshDraft())).id;
+  const asAdmin: RequestContext = { ...SYSTEM, principal: { personId: admin.id, name: admin.name, email: admin.email, institutionId: admin.institutionId, roles: ['admin'], scopes: [...TOKEN_SCOPES], via: 'session' } };
+  const freshGranted = async () => {
+    const id = await freshSubmitted();
+    await t.services.reviews.decide(asAdmin, id, { outcome: 'grant-all', message: 'Granted for the authorization matrix.' });
+    await t.services.ledger.adjust(asAdmin, id, { coreHours: 100, reason: 'headroom for the matrix runs' });
+    return id;
+  };
+  const grantedId = await freshGranted();
   fixtures = {
+    committeeId: committee.id,
+    grantedId,
+    freshGranted,
+    async freshAssignment() {
+      const campaignId = await freshSubmitted();
+      const a = await t.services.reviews.assign(asAdmin, campaignId, committee.id);
+      return { campaignId, assignmentId: a.id };
+    },
+    async freshRun() {
+      const run = await t.services.runs.create(as(pi), grantedId, RunInput.parse({
+        externalJobId: `matrix-refund-${randomUUID()}`, machine: MATRIX_MACHINE, startedAt: '2027-02-01T08:00:00Z', endedAt: '2027-02-01T08:00:36Z', cores: 1, codeName: 'tmm-bar', codeVersion: 'matrix',
+      }));
+      return run.id;
+    },
+    scratch: {},
     roundId: round.id,
     draftId: await freshDraft(),
     submittedId: await freshSubmitted(),

@@ -28,6 +28,18 @@ export interface Fixtures {
   freshSubmitted(): Promise<string>;
   /** A proposal of group A, submitted once, that rows only read. */
   submittedId: string;
+  /** The committee actor, who is from another institution than group A (no conflict). */
+  committeeId: string;
+  /** A granted campaign of group A that rows read and charge small amounts to. */
+  grantedId: string;
+  /** A new granted campaign of group A. */
+  freshGranted(): Promise<string>;
+  /** A new proposal of group A in review, with the committee actor assigned. */
+  freshAssignment(): Promise<{ campaignId: string; assignmentId: string }>;
+  /** A run of the granted campaign, recorded by its PI. */
+  freshRun(): Promise<string>;
+  /** Scratch space for rows that prepare records in `before`. */
+  scratch: Record<string, string>;
 }
 
 export const MATRIX_MACHINE = 'matrix-cluster';
@@ -61,6 +73,17 @@ const only = (status: number, allowed: Actor[], others = 403) => ({
 });
 
 const fixed = (p: string) => () => p;
+
+/** A tiny run with a job id of its own, so every request records a new one. */
+const tinyRun = () => ({
+  externalJobId: `matrix-${randomUUID()}`, machine: MATRIX_MACHINE, startedAt: '2027-02-01T08:00:00Z', endedAt: '2027-02-01T08:00:36Z',
+  cores: 1, codeName: 'tmm-bar', codeVersion: 'matrix', parameters: { sizes: [4], disorder: [16.5], energies: [0], seeds: [1] },
+});
+const tinyImport = () => ({ csv: `JobID,Start,End,AllocCPUS\r\nmatrix-${randomUUID()},2027-02-01T08:00:00,2027-02-01T08:00:36,1\r\n`, defaults: { codeName: 'tmm-bar', codeVersion: 'matrix' } });
+const MATRIX_REVIEW = { scores: { merit: 4, feasibility: 4, costJustification: 3 }, toProposers: 'A sound plan; the sizes are well chosen.', confidential: '', recommendedCoreHours: 1 };
+// The group's campaigns: its members and the office see them, the committee once submitted, other groups never.
+const groupReaders = { ...only(200, ['researcher', 'pi', 'committee', 'admin']), otherGroupPi: 404 };
+const groupRecorders = (status: number) => ({ ...only(status, ['researcher', 'pi', 'admin']), otherGroupPi: 404 });
 
 export const MATRIX: MatrixRow[] = [
   { method: 'GET', route: '/healthz', path: fixed('/healthz'), expect: all(200) },
@@ -159,4 +182,61 @@ export const MATRIX: MatrixRow[] = [
     method: 'POST', route: '/api/v1/campaigns/:id/start-review', path: (f) => f.freshSubmitted().then((id) => `/api/v1/campaigns/${id}/start-review`),
     expect: only(200, ['admin']),
   },
+
+  { method: 'GET', route: '/api/v1/me/notifications', path: fixed('/api/v1/me/notifications'), expect: signedIn(200) },
+  { method: 'POST', route: '/api/v1/me/notifications/read', path: fixed('/api/v1/me/notifications/read'), body: () => ({ all: true }), expect: signedIn(200) },
+  { method: 'GET', route: '/api/v1/me/mail-preferences', path: fixed('/api/v1/me/mail-preferences'), expect: signedIn(200) },
+  { method: 'PATCH', route: '/api/v1/me/mail-preferences', path: fixed('/api/v1/me/mail-preferences'), body: () => ({ 'round-closing': true }), expect: signedIn(200) },
+
+  { method: 'GET', route: '/api/v1/committee/queue', path: fixed('/api/v1/committee/queue?scope=all'), expect: only(200, ['committee', 'admin']) },
+  { method: 'GET', route: '/api/v1/campaigns/:id/reviews', path: (f) => `/api/v1/campaigns/${f.submittedId}/reviews`, expect: groupReaders },
+  {
+    method: 'POST', route: '/api/v1/campaigns/:id/assignments', path: (f) => f.freshSubmitted().then((id) => `/api/v1/campaigns/${id}/assignments`),
+    body: (f) => ({ reviewerPersonId: f.committeeId }), expect: only(201, ['admin']),
+  },
+  {
+    method: 'DELETE', route: '/api/v1/campaigns/:id/assignments/:assignmentId',
+    path: (f) => f.freshAssignment().then((a) => `/api/v1/campaigns/${a.campaignId}/assignments/${a.assignmentId}`), expect: only(204, ['admin']),
+  },
+  {
+    method: 'POST', route: '/api/v1/campaigns/:id/conflict', path: (f) => f.freshSubmitted().then((id) => `/api/v1/campaigns/${id}/conflict`),
+    body: () => ({ reason: 'co-author of the PI last year' }), expect: only(200, ['committee']),
+  },
+  {
+    method: 'PUT', route: '/api/v1/campaigns/:id/assignments/:assignmentId/review',
+    path: (f) => f.freshAssignment().then((a) => `/api/v1/campaigns/${a.campaignId}/assignments/${a.assignmentId}/review`), body: () => MATRIX_REVIEW, expect: only(200, ['committee']),
+  },
+  { method: 'GET', route: '/api/v1/campaigns/:id/pool', path: (f) => `/api/v1/campaigns/${f.submittedId}/pool`, expect: only(200, ['committee', 'admin']) },
+  {
+    method: 'POST', route: '/api/v1/campaigns/:id/decision', path: (f) => f.freshSubmitted().then((id) => `/api/v1/campaigns/${id}/decision`),
+    body: () => ({ outcome: 'decline', message: 'Declined by the authorization matrix.' }), expect: only(200, ['admin']),
+  },
+  { method: 'GET', route: '/api/v1/rounds/:id/usage', path: (f) => `/api/v1/rounds/${f.roundId}/usage`, expect: only(200, ['committee', 'admin']) },
+
+  { method: 'GET', route: '/api/v1/campaigns/:id/ledger', path: (f) => `/api/v1/campaigns/${f.grantedId}/ledger`, expect: groupReaders },
+  {
+    method: 'POST', route: '/api/v1/campaigns/:id/ledger/adjustments', path: (f) => `/api/v1/campaigns/${f.grantedId}/ledger/adjustments`,
+    body: () => ({ coreHours: 1, reason: 'matrix top-up' }), expect: only(201, ['admin']),
+  },
+  {
+    method: 'POST', route: '/api/v1/campaigns/:id/ledger/transfers',
+    before: async (f) => {
+      f.scratch.transferFrom = await f.freshGranted();
+      f.scratch.transferTo = await f.freshGranted();
+    },
+    path: (f) => `/api/v1/campaigns/${f.scratch.transferFrom}/ledger/transfers`,
+    body: (f) => ({ toCampaignId: f.scratch.transferTo, coreHours: 0.001, reason: 'matrix transfer' }),
+    expect: { ...only(201, ['pi', 'admin']), otherGroupPi: 404 },
+  },
+  {
+    method: 'POST', route: '/api/v1/campaigns/:id/ledger/refunds',
+    before: async (f) => {
+      f.scratch.refundRun = await f.freshRun();
+    },
+    path: (f) => `/api/v1/campaigns/${f.grantedId}/ledger/refunds`, body: (f) => ({ runId: f.scratch.refundRun, reason: 'node failure' }), expect: only(201, ['admin']),
+  },
+  { method: 'GET', route: '/api/v1/campaigns/:id/runs', path: (f) => `/api/v1/campaigns/${f.grantedId}/runs`, expect: groupReaders },
+  { method: 'POST', route: '/api/v1/campaigns/:id/runs', path: (f) => `/api/v1/campaigns/${f.grantedId}/runs`, body: () => tinyRun(), expect: groupRecorders(201) },
+  { method: 'POST', route: '/api/v1/campaigns/:id/runs/import', path: (f) => `/api/v1/campaigns/${f.grantedId}/runs/import?dryRun=true`, body: () => tinyImport(), expect: groupRecorders(200) },
+  { method: 'POST', route: '/api/v1/campaigns/:id/runs/import', path: (f) => `/api/v1/campaigns/${f.grantedId}/runs/import`, body: () => tinyImport(), expect: groupRecorders(201) },
 ];

@@ -182,6 +182,18 @@ describe('bad input', () => {
       }
     });
 
+    it('should not refuse many good requests sent at once by one script', async () => {
+      const limited = await startTestApp({ FAILED_TOKEN_RATE_PER_MINUTE: '2', TRUST_PROXY: 'loopback' });
+      try {
+        const token = await tokenFor(limited, researcher, ['read']);
+        const headers = { 'x-forwarded-for': `198.51.100.${Math.floor(Math.random() * 250) + 1}`, authorization: `Bearer ${token}` };
+        const statuses = await Promise.all(Array.from({ length: 25 }, () => fetch(`${limited.url}/api/v1/me`, { headers }).then((r) => r.status)));
+        expect(new Set(statuses)).toEqual(new Set([200]));
+      } finally {
+        await limited.close();
+      }
+    });
+
     it('should answer 429 when one API token makes too many requests', async () => {
       const limited = await startTestApp({ TOKEN_RATE_PER_MINUTE: '2' });
       try {

@@ -1,7 +1,7 @@
 import { ipKeyGenerator, rateLimit, type RateLimitRequestHandler } from 'express-rate-limit';
 import { RedisStore, type RedisReply } from 'rate-limit-redis';
 import type { Redis } from 'ioredis';
-import type { Request } from 'express';
+import type { NextFunction, Request, Response } from 'express';
 import { errors, type Settings } from '@localis/shared';
 
 /** Counters live in Redis so several api instances share one limit. */
@@ -41,10 +41,38 @@ function limiter(
   });
 }
 
+/**
+ * Wrong API tokens per client address. Written here rather than with express-rate-limit: its
+ * count-only-failures mode counts every request on arrival and takes the successes back when they
+ * finish, so a script sending 25 good requests at once was refused as if it were guessing. This
+ * guard only reads the counter on arrival and adds to it when a token was really refused (401).
+ */
+function failedTokenGuard(redis: Redis, perMinute: number) {
+  const keyOf = (req: Request) => `localis:rl:badtoken:ip:${ipKeyGenerator(req.ip ?? 'unknown')}`;
+  return async (req: Request, res: Response, next: NextFunction) => {
+    if (req.get('authorization') === undefined) return next();
+    const key = keyOf(req);
+    try {
+      const [count, ttl] = await Promise.all([redis.get(key), redis.pttl(key)]);
+      if (Number(count ?? 0) >= perMinute) {
+        const retry = Math.max(1, Math.ceil((ttl > 0 ? ttl : 60_000) / 1000));
+        res.setHeader('Retry-After', String(retry));
+        return next(errors.rateLimited(retry));
+      }
+    } catch (e) {
+      return next(e);
+    }
+    res.on('finish', () => {
+      if (res.statusCode === 401) void redis.multi().incr(key).pexpire(key, 60_000, 'NX').exec().catch(() => undefined);
+    });
+    next();
+  };
+}
+
 export function createRateLimits(redis: Redis, s: Pick<Settings, 'SIGNIN_RATE_PER_MINUTE' | 'TOKEN_RATE_PER_MINUTE' | 'FAILED_TOKEN_RATE_PER_MINUTE' | 'PUBLIC_URL'>) {
   return {
     /** Wrong API tokens, per client address: guessing costs a database lookup each. */
-    failedTokens: limiter(redis, 'badtoken', s.FAILED_TOKEN_RATE_PER_MINUTE, (req) => `ip:${ipKeyGenerator(req.ip ?? 'unknown')}`, (req) => req.get('authorization') === undefined, true),
+    failedTokens: failedTokenGuard(redis, s.FAILED_TOKEN_RATE_PER_MINUTE),
     /** Sign-in pages, per client address. */
     signIn: limiter(redis, 'signin', s.SIGNIN_RATE_PER_MINUTE, (req) => `ip:${ipKeyGenerator(req.ip ?? 'unknown')}`, undefined, false, new URL('/sign-in?error=rate_limited', s.PUBLIC_URL).href),
     /** Requests made with an API token, per token. */

@@ -11,6 +11,8 @@ function toDto(r: Round, campaignCount: number, now = new Date()): RoundDto {
     name: r.name,
     opensAt,
     closesAt,
+    allocationEndsAt: r.allocationEndsAt.toISOString(),
+    overdraftPercent: r.overdraftPercent,
     status: roundStatus({ opensAt, closesAt }, now),
     pools,
     totalCoreHours: pools.reduce((s, p) => s + p.coreHours, 0),
@@ -51,15 +53,26 @@ export const roundsRepository = {
     return toDto(r, (await campaignCounts([id], tx)).get(id) ?? 0);
   },
 
-  async create(input: { id?: string; name: string; opensAt: string; closesAt: string }, tx: Transaction): Promise<string> {
-    return (await Round.create({ id: input.id, name: input.name, opensAt: new Date(input.opensAt), closesAt: new Date(input.closesAt) }, { transaction: tx })).id;
+  async create(input: { id?: string; name: string; opensAt: string; closesAt: string; allocationEndsAt: string; overdraftPercent: number }, tx: Transaction): Promise<string> {
+    return (
+      await Round.create(
+        { id: input.id, name: input.name, opensAt: new Date(input.opensAt), closesAt: new Date(input.closesAt), allocationEndsAt: new Date(input.allocationEndsAt), overdraftPercent: input.overdraftPercent },
+        { transaction: tx },
+      )
+    ).id;
   },
 
-  async update(id: string, patch: { name?: string; opensAt?: string; closesAt?: string }, tx: Transaction): Promise<void> {
+  async update(id: string, patch: { name?: string; opensAt?: string; closesAt?: string; allocationEndsAt?: string; overdraftPercent?: number }, tx: Transaction): Promise<void> {
     const values: Record<string, unknown> = {};
     if (patch.name !== undefined) values.name = patch.name;
     if (patch.opensAt !== undefined) values.opensAt = new Date(patch.opensAt);
-    if (patch.closesAt !== undefined) values.closesAt = new Date(patch.closesAt);
+    if (patch.closesAt !== undefined) {
+      values.closesAt = new Date(patch.closesAt);
+      // A new closing date deserves its own "closes in 14 days" notice.
+      values.closingNoticeSentAt = null;
+    }
+    if (patch.allocationEndsAt !== undefined) values.allocationEndsAt = new Date(patch.allocationEndsAt);
+    if (patch.overdraftPercent !== undefined) values.overdraftPercent = patch.overdraftPercent;
     if (Object.keys(values).length) await Round.update(values, { where: { id }, transaction: tx });
   },
 

@@ -1,5 +1,5 @@
 import { UniqueConstraintError } from 'sequelize';
-import { errors, type RoundInput, type RoundListQuery, type RoundPatch } from '@localis/shared';
+import { DEFAULT_ALLOCATION_DAYS, errors, type RoundInput, type RoundListQuery, type RoundPatch } from '@localis/shared';
 import type { Database } from '../db';
 import type { RequestContext } from '../http/principal';
 import { auditService } from '../audit/audit.service';
@@ -22,7 +22,8 @@ export function createRoundsService(db: Database) {
       return db.transaction(async (tx) => {
         let id: string;
         try {
-          id = await roundsRepository.create({ ...input, id: fixedId }, tx);
+          const allocationEndsAt = input.allocationEndsAt ?? new Date(new Date(input.closesAt).getTime() + DEFAULT_ALLOCATION_DAYS * 86_400_000).toISOString();
+          id = await roundsRepository.create({ ...input, id: fixedId, allocationEndsAt, overdraftPercent: input.overdraftPercent ?? 0 }, tx);
         } catch (e) {
           if (e instanceof UniqueConstraintError) throw duplicateName(input.name);
           throw e;
@@ -41,6 +42,9 @@ export function createRoundsService(db: Database) {
         const closesAt = patch.closesAt ?? round.closesAt;
         if (new Date(closesAt) <= new Date(opensAt)) {
           throw errors.invalid('A round must close after it opens.', [{ path: ['closesAt'], message: 'a round must close after it opens' }]);
+        }
+        if (new Date(patch.allocationEndsAt ?? round.allocationEndsAt) <= new Date(closesAt)) {
+          throw errors.invalid('The allocation period must end after the round closes.', [{ path: ['allocationEndsAt'], message: 'the allocation period must end after the round closes' }]);
         }
         if (patch.pools) {
           const inUse = await roundsRepository.machinesInUse(id, tx);

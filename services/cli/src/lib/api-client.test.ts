@@ -41,6 +41,29 @@ describe('ApiClient', () => {
       expect(seen.agent).toMatch(/^localis-cli\/\d+\.\d+\.\d+ node\//);
     });
 
+    it('should send extra headers with a write, keep its own token over one named authorization, and show the answer headers', async () => {
+      let seen: { key?: string; auth?: string; type?: string; body?: string } = {};
+      const url = await serve((req, res) => {
+        let body = '';
+        req.on('data', (chunk: Buffer) => (body += chunk.toString()));
+        req.on('end', () => {
+          seen = { key: req.headers['idempotency-key'] as string, auth: req.headers.authorization, type: req.headers['content-type'], body };
+          res.statusCode = 201;
+          res.setHeader('idempotent-replayed', 'true');
+          res.setHeader('content-type', 'application/json').end('{"id":"r1"}');
+        });
+      });
+      let replayed: string | null = null;
+      const answer = await new ApiClient({ url, token: 'lcs_abc' }).request('POST', '/campaigns/c/runs', {
+        body: { cores: 4 },
+        headers: { 'idempotency-key': 'run-1', authorization: 'Bearer other' },
+        onHeaders: (h) => (replayed = h.get('idempotent-replayed')),
+      });
+      expect(answer).toEqual({ id: 'r1' });
+      expect(replayed).toBe('true');
+      expect(seen).toEqual({ key: 'run-1', auth: 'Bearer lcs_abc', type: 'application/json', body: '{"cores":4}' });
+    });
+
     it('should not expose the token when the client is inspected or serialised', () => {
       const client = new ApiClient({ url: 'http://127.0.0.1:1', token: 'lcs_secretsecretsecret' });
       expect(JSON.stringify(client)).not.toContain('lcs_secret');

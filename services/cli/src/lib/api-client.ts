@@ -18,6 +18,10 @@ export interface RequestOptions<S extends z.ZodType | undefined> {
   body?: unknown;
   /** Checks the answer, so a wrong --url (some other web server) fails here and not three calls later. */
   schema?: S;
+  /** Extra request headers, e.g. `idempotency-key`; they cannot replace the token or the JSON ones. */
+  headers?: Record<string, string>;
+  /** Sees the headers of a successful answer, e.g. whether the portal replayed an earlier one. */
+  onHeaders?: (headers: Headers) => void;
 }
 
 type Answer<S> = S extends z.ZodType ? z.infer<S> : unknown;
@@ -74,8 +78,8 @@ export class ApiClient {
     return this.request('GET', path, { schema });
   }
 
-  post<S extends z.ZodType | undefined = undefined>(path: string, body: unknown, schema?: S): Promise<Answer<S>> {
-    return this.request('POST', path, { body, schema });
+  post<S extends z.ZodType | undefined = undefined>(path: string, body: unknown, schema?: S, headers?: Record<string, string>): Promise<Answer<S>> {
+    return this.request('POST', path, { body, schema, headers });
   }
 
   async request<S extends z.ZodType | undefined = undefined>(method: string, path: string, opts: RequestOptions<S> = {}): Promise<Answer<S>> {
@@ -86,6 +90,7 @@ export class ApiClient {
       res = await fetch(endpoint, {
         method,
         headers: {
+          ...opts.headers,
           authorization: `Bearer ${this.#token}`,
           accept: 'application/json',
           'user-agent': `localis-cli/${CLI_VERSION} node/${process.versions.node}`,
@@ -126,6 +131,7 @@ export class ApiClient {
       throw new CliError(`${this.url} answered ${what} with ${res.status} ${res.statusText}; is that the Localis portal?`, { exitCode });
     }
 
+    opts.onHeaders?.(res.headers);
     if (res.status === 204 || text === '') return undefined as Answer<S>;
     if (json === NOT_JSON) {
       throw new CliError(`${this.url} answered ${what} with something other than JSON; is that the Localis portal?`);

@@ -112,7 +112,7 @@ function bytes(n: number): string {
 }
 
 /** Columns padded to their widest cell; `right[i]` right-aligns the numbers of column i. */
-function table(header: string[], rows: string[][], right: boolean[]): string[] {
+export function table(header: string[], rows: string[][], right: boolean[]): string[] {
   const widths = header.map((h, i) => Math.max(h.length, ...rows.map((r) => r[i].length)));
   const line = (cells: string[]) =>
     '  ' + cells.map((c, i) => (right[i] ? c.padStart(widths[i]) : i === cells.length - 1 ? c : c.padEnd(widths[i]))).join('  ');

@@ -1,6 +1,7 @@
 import { mailJob } from './mail.job';
+import { dailySweepJob } from './daily-sweep.job';
 import type { JobDefinition } from './job';
 
 /** Every job the worker runs; one BullMQ queue each. */
-export const JOBS: JobDefinition[] = [mailJob as JobDefinition];
+export const JOBS: JobDefinition[] = [mailJob as JobDefinition, dailySweepJob as JobDefinition];
 export type { JobDefinition, JobDeps } from './job';

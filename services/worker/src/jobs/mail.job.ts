@@ -4,18 +4,31 @@ import { MailMessage, QUEUES } from '@localis/shared';
 import type { JobDefinition } from './job';
 
 const SENT_TTL_SECONDS = 30 * 86_400;
+/** Longer than any send takes; a crashed worker's lease runs out and a retry takes over. */
+const SENDING_LEASE_MS = 60_000;
 
 /**
  * Send one e-mail. A retried job with the same dedupeKey is not sent again: the key is marked
  * in Redis after a successful send (a crash between send and mark can repeat one message,
- * which beats losing it).
+ * which beats losing it). Two jobs of one message running at once (it was queued twice) do not
+ * both send: the first holds a short lease and the other fails, to be retried after the mark.
  */
 export const mailJob: JobDefinition<typeof MailMessage> = {
   name: QUEUES.mail,
   schema: MailMessage,
   async process(message, { settings, redis, logger }) {
-    const sentKey = `localis:mail:sent:${createHash('sha256').update(message.dedupeKey).digest('hex')}`;
+    const keyHash = createHash('sha256').update(message.dedupeKey).digest('hex');
+    const sentKey = `localis:mail:sent:${keyHash}`;
+    const leaseKey = `localis:mail:sending:${keyHash}`;
     if (await redis.exists(sentKey)) return { skipped: 'already sent' };
+    if ((await redis.set(leaseKey, '1', 'PX', SENDING_LEASE_MS, 'NX')) !== 'OK') {
+      throw new Error('another job is sending the same message; this one retries after it');
+    }
+    // The other job may have finished between the check and the lease.
+    if (await redis.exists(sentKey)) {
+      await redis.del(leaseKey);
+      return { skipped: 'already sent' };
+    }
     const transport = nodemailer.createTransport({
       host: settings.SMTP_HOST,
       port: settings.SMTP_PORT,
@@ -28,13 +41,16 @@ export const mailJob: JobDefinition<typeof MailMessage> = {
         to: message.to,
         subject: message.subject,
         text: message.text,
-        messageId: `<${createHash('sha256').update(message.dedupeKey).digest('hex').slice(0, 32)}@localis>`,
+        // Mail readers that show HTML take it; the others read the text part.
+        ...(message.html ? { html: message.html } : {}),
+        messageId: `<${keyHash.slice(0, 32)}@localis>`,
       });
       await redis.set(sentKey, info.messageId ?? '1', 'EX', SENT_TTL_SECONDS);
       logger.info({ to: message.to.length, subject: message.subject }, 'mail sent');
       return { messageId: info.messageId };
     } finally {
       transport.close();
+      await redis.del(leaseKey);
     }
   },
 };

@@ -54,7 +54,8 @@ export function campaignFixture(overrides: Partial<Campaign> = {}): Campaign {
     },
     notices: [],
     history: [{ fromState: null, toState: 'draft', actorPersonId: null, actorName: 'Ilse Marrow', note: null, at: '2026-11-02T09:00:00.000Z' }],
-    can: { edit: false, submit: false, withdraw: false, startReview: false },
+    grantedCoreHours: null,
+    can: { edit: false, submit: false, withdraw: false, startReview: false, decide: false, recordRuns: false, transfer: false },
     ...overrides,
   };
 }

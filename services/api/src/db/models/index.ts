@@ -8,8 +8,11 @@ import { AuditLog } from './audit-log.model';
 import { OutboxMessage } from './outbox-message.model';
 import { Round, RoundPool } from './round.model';
 import { Campaign, CampaignEvent } from './campaign.model';
+import { ReviewAssignment, Review } from './review.model';
+import { Run, LedgerEntry, UsageAlert } from './ledger.model';
+import { Notification, IdempotencyKey } from './notification.model';
 
-export { Institution, Person, ResearchGroup, GroupMembership, RoleGrant, ApiToken, AuditLog, OutboxMessage, Round, RoundPool, Campaign, CampaignEvent };
+export { Institution, Person, ResearchGroup, GroupMembership, RoleGrant, ApiToken, AuditLog, OutboxMessage, Round, RoundPool, Campaign, CampaignEvent, ReviewAssignment, Review, Run, LedgerEntry, UsageAlert, Notification, IdempotencyKey };
 
 export interface Models {
   Institution: typeof Institution;
@@ -24,6 +27,13 @@ export interface Models {
   RoundPool: typeof RoundPool;
   Campaign: typeof Campaign;
   CampaignEvent: typeof CampaignEvent;
+  ReviewAssignment: typeof ReviewAssignment;
+  Review: typeof Review;
+  Run: typeof Run;
+  LedgerEntry: typeof LedgerEntry;
+  UsageAlert: typeof UsageAlert;
+  Notification: typeof Notification;
+  IdempotencyKey: typeof IdempotencyKey;
 }
 
 /**
@@ -43,6 +53,13 @@ export function initModels(sequelize: Sequelize): Models {
   RoundPool.initModel(sequelize);
   Campaign.initModel(sequelize);
   CampaignEvent.initModel(sequelize);
+  ReviewAssignment.initModel(sequelize);
+  Review.initModel(sequelize);
+  Run.initModel(sequelize);
+  LedgerEntry.initModel(sequelize);
+  UsageAlert.initModel(sequelize);
+  Notification.initModel(sequelize);
+  IdempotencyKey.initModel(sequelize);
 
   Person.belongsTo(Institution, { foreignKey: 'institutionId', as: 'institution' });
   Person.hasMany(RoleGrant, { foreignKey: 'personId', as: 'roleGrants' });
@@ -58,5 +75,12 @@ export function initModels(sequelize: Sequelize): Models {
   Campaign.belongsTo(Round, { foreignKey: 'roundId', as: 'round' });
   Campaign.belongsTo(Person, { foreignKey: 'ownerPersonId', as: 'owner' });
   CampaignEvent.belongsTo(Person, { foreignKey: 'actorPersonId', as: 'actor' });
-  return { Institution, Person, ResearchGroup, GroupMembership, RoleGrant, ApiToken, AuditLog, OutboxMessage, Round, RoundPool, Campaign, CampaignEvent };
+  ReviewAssignment.belongsTo(Person, { foreignKey: 'reviewerPersonId', as: 'reviewer' });
+  ReviewAssignment.hasOne(Review, { foreignKey: 'assignmentId', as: 'review' });
+  ReviewAssignment.belongsTo(Campaign, { foreignKey: 'campaignId', as: 'campaign' });
+  Run.belongsTo(Person, { foreignKey: 'recordedByPersonId', as: 'recordedBy' });
+  LedgerEntry.belongsTo(Person, { foreignKey: 'actorPersonId', as: 'actor' });
+  LedgerEntry.belongsTo(Run, { foreignKey: 'runId', as: 'run' });
+  LedgerEntry.belongsTo(Campaign, { foreignKey: 'counterpartCampaignId', as: 'counterpart' });
+  return { Institution, Person, ResearchGroup, GroupMembership, RoleGrant, ApiToken, AuditLog, OutboxMessage, Round, RoundPool, Campaign, CampaignEvent, ReviewAssignment, Review, Run, LedgerEntry, UsageAlert, Notification, IdempotencyKey };
 }

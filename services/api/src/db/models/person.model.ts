@@ -10,6 +10,8 @@ export class Person extends Model<InferAttributes<Person>, InferCreationAttribut
   declare institutionId: string | null;
   declare active: CreationOptional<boolean>;
   declare lastSignInAt: Date | null;
+  /** Optional mails a person turned off or on ({ "usage-threshold": false }); missing keys are on. */
+  declare mailPreferences: CreationOptional<Record<string, boolean>>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
   declare institution?: NonAttribute<Institution | null>;
@@ -25,6 +27,7 @@ export class Person extends Model<InferAttributes<Person>, InferCreationAttribut
         institutionId: { type: DataTypes.UUID, allowNull: true },
         active: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: true },
         lastSignInAt: { type: DataTypes.DATE, allowNull: true },
+        mailPreferences: { type: DataTypes.JSONB, allowNull: false, defaultValue: {} },
         createdAt: DataTypes.DATE,
         updatedAt: DataTypes.DATE,
       },

@@ -5,6 +5,10 @@ export class Round extends Model<InferAttributes<Round>, InferCreationAttributes
   declare name: string;
   declare opensAt: Date;
   declare closesAt: Date;
+  declare allocationEndsAt: Date;
+  declare overdraftPercent: CreationOptional<number>;
+  /** When the "closes in 14 days" notice went out (cleared when the closing date moves). */
+  declare closingNoticeSentAt: CreationOptional<Date | null>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
   declare pools?: NonAttribute<RoundPool[]>;
@@ -16,6 +20,9 @@ export class Round extends Model<InferAttributes<Round>, InferCreationAttributes
         name: { type: DataTypes.TEXT, allowNull: false },
         opensAt: { type: DataTypes.DATE, allowNull: false },
         closesAt: { type: DataTypes.DATE, allowNull: false },
+        allocationEndsAt: { type: DataTypes.DATE, allowNull: false },
+        overdraftPercent: { type: DataTypes.SMALLINT, allowNull: false, defaultValue: 0 },
+        closingNoticeSentAt: { type: DataTypes.DATE, allowNull: true },
         createdAt: DataTypes.DATE,
         updatedAt: DataTypes.DATE,
       },

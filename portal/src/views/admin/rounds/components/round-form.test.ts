@@ -1,12 +1,14 @@
 import { RoundInput, type Round } from '@localis/shared';
 import { describe, expect, it } from 'vitest';
-import { emptyPool, formOf, poolErrors, poolTotal, roundChanges, fromLocalInput, toLocalInput } from './round-form';
+import { emptyPool, formOf, poolErrors, poolTotal, roundChanges, roundInputOf, fromLocalInput, toLocalInput } from './round-form';
 
 const round: Round = {
   id: '5f0c1a2b-3c4d-4e5f-8a9b-0c1d2e3f4a5b',
   name: '2027 spring round',
   opensAt: '2027-01-15T00:00:00.000Z',
   closesAt: '2027-03-31T21:59:59.000Z',
+  allocationEndsAt: '2028-03-31T21:59:59.000Z',
+  overdraftPercent: 0,
   status: 'upcoming',
   pools: [
     { machine: 'cluster-a', coreHours: 5_000_000 },
@@ -20,7 +22,31 @@ const round: Round = {
 describe('round-form', () => {
   describe('formOf', () => {
     it('should start with one empty pool row when adding a round', () => {
-      expect(formOf(null)).toEqual({ name: '', opensAt: '', closesAt: '', pools: [emptyPool()] });
+      expect(formOf(null)).toEqual({ name: '', opensAt: '', closesAt: '', pools: [emptyPool()], allocationEndsAt: '', overdraftPercent: null });
+    });
+
+    it('should show the allocation end and overdraft of the round when editing', () => {
+      expect(formOf({ ...round, overdraftPercent: 10 })).toMatchObject({ allocationEndsAt: round.allocationEndsAt, overdraftPercent: 10 });
+    });
+  });
+
+  describe('roundInputOf', () => {
+    it('should leave the allocation end and overdraft out when they are empty, so the defaults apply', () => {
+      const input = roundInputOf({ ...formOf(round), allocationEndsAt: '', overdraftPercent: null });
+      expect(input).not.toHaveProperty('allocationEndsAt');
+      expect(input).not.toHaveProperty('overdraftPercent');
+      expect(RoundInput.safeParse(input).success).toBe(true);
+    });
+
+    it('should pass them on when they are given', () => {
+      const input = roundInputOf({ ...formOf(round), overdraftPercent: 20 });
+      expect(input).toMatchObject({ allocationEndsAt: round.allocationEndsAt, overdraftPercent: 20 });
+      expect(RoundInput.safeParse(input).success).toBe(true);
+    });
+
+    it('should let the schema refuse an overdraft above 50 % and an allocation end before the close', () => {
+      const result = RoundInput.safeParse(roundInputOf({ ...formOf(round), overdraftPercent: 60, allocationEndsAt: '2027-03-01T00:00:00.000Z' }));
+      expect(result.error?.issues.map((i) => i.path[0])).toEqual(expect.arrayContaining(['overdraftPercent', 'allocationEndsAt']));
     });
 
     it('should copy the round so edits do not touch the table when editing', () => {
@@ -75,6 +101,14 @@ describe('round-form', () => {
 
     it('should find nothing to save when only the spelling of a time differs', () => {
       expect(roundChanges(input, round)).toEqual({});
+    });
+
+    it('should send a changed allocation end or overdraft, and not a missing one', () => {
+      expect(roundChanges({ ...input, allocationEndsAt: '2028-03-31T21:59:59Z', overdraftPercent: 0 }, round)).toEqual({});
+      expect(roundChanges({ ...input, allocationEndsAt: '2028-06-30T00:00:00.000Z', overdraftPercent: 15 }, round)).toEqual({
+        allocationEndsAt: '2028-06-30T00:00:00.000Z',
+        overdraftPercent: 15,
+      });
     });
 
     it('should send only the changed fields when some change', () => {

@@ -12,6 +12,10 @@ export interface RoundForm {
   opensAt: string;
   closesAt: string;
   pools: PoolRow[];
+  /** '' leaves the server's default: a year after the round closes. */
+  allocationEndsAt: string;
+  /** null leaves the server's default: 0 %, runs beyond a grant are refused. */
+  overdraftPercent: number | null;
 }
 
 export const emptyPool = (): PoolRow => ({ machine: '', coreHours: null });
@@ -22,28 +26,23 @@ export function formOf(round: Round | null): RoundForm {
     opensAt: round?.opensAt ?? '',
     closesAt: round?.closesAt ?? '',
     pools: round ? round.pools.map((p) => ({ machine: p.machine, coreHours: p.coreHours })) : [emptyPool()],
+    allocationEndsAt: round?.allocationEndsAt ?? '',
+    overdraftPercent: round?.overdraftPercent ?? null,
   };
 }
 
-/**
- * An ISO time as a `datetime-local` box shows it (the reader's local time, to the minute), and
- * back. A native box rather than the component library's date picker: that one drops typed
- * date-times in 24-hour mode, so only a mouse could set a round's dates.
- */
-export function toLocalInput(iso: string): string {
-  if (!iso) return '';
-  const d = new Date(iso);
-  if (Number.isNaN(d.getTime())) return '';
-  const two = (n: number) => String(n).padStart(2, '0');
-  return `${d.getFullYear()}-${two(d.getMonth() + 1)}-${two(d.getDate())}T${two(d.getHours())}:${two(d.getMinutes())}`;
+/** What RoundInput checks: the optional policy fields left out while empty, so the defaults apply. */
+export function roundInputOf(form: RoundForm): Record<string, unknown> {
+  const { allocationEndsAt, overdraftPercent, ...rest } = form;
+  return {
+    ...rest,
+    ...(allocationEndsAt ? { allocationEndsAt } : {}),
+    ...(overdraftPercent === null ? {} : { overdraftPercent }),
+  };
 }
 
-/** A `datetime-local` value (local time) as ISO UTC; '' when empty or not a time. */
-export function fromLocalInput(value: string): string {
-  if (!value) return '';
-  const d = new Date(value);
-  return Number.isNaN(d.getTime()) ? '' : d.toISOString();
-}
+// The dialog's time boxes; kept importable from here for the round's own code and tests.
+export { fromLocalInput, toLocalInput } from '../../../../lib/local-datetime';
 
 interface Issue {
   path: readonly PropertyKey[];
@@ -91,6 +90,8 @@ export function roundChanges(input: RoundInput, before: Round): RoundPatch {
   if (!sameInstant(input.opensAt, before.opensAt)) patch.opensAt = input.opensAt;
   if (!sameInstant(input.closesAt, before.closesAt)) patch.closesAt = input.closesAt;
   if (!samePools(input.pools, before.pools)) patch.pools = input.pools;
+  if (input.allocationEndsAt !== undefined && !sameInstant(input.allocationEndsAt, before.allocationEndsAt)) patch.allocationEndsAt = input.allocationEndsAt;
+  if (input.overdraftPercent !== undefined && input.overdraftPercent !== before.overdraftPercent) patch.overdraftPercent = input.overdraftPercent;
   return patch;
 }
 

@@ -1,0 +1,186 @@
+import { QueryTypes, type Transaction } from 'sequelize';
+import { balancesOf, fromMilli, type Balances, type LedgerEntry as EntryDto, type LedgerKind, type PoolUsage } from '@localis/shared';
+import { Campaign, LedgerEntry, Person, Run, UsageAlert } from '../db/models';
+
+export interface NewEntry {
+  campaignId: string;
+  kind: LedgerKind;
+  milli: number;
+  runId?: string | null;
+  counterpartCampaignId?: string | null;
+  reason?: string | null;
+  overdraft?: boolean;
+  actorPersonId: string | null;
+}
+
+const q = <T extends object>(sql: string, replacements: Record<string, unknown>, tx?: Transaction) =>
+  LedgerEntry.sequelize!.query<T>(sql, { replacements, type: QueryTypes.SELECT, transaction: tx });
+
+/** Sums per kind of one campaign's entries, read in SQL so a balance costs one indexed scan. */
+async function sumsByKind(campaignIds: string[], tx?: Transaction): Promise<Map<string, Balances>> {
+  const rows = campaignIds.length
+    ? await q<{ campaign_id: string; kind: LedgerKind; milli: string }>(
+        'SELECT campaign_id, kind, sum(milli)::text AS milli FROM ledger_entries WHERE campaign_id IN (:ids) GROUP BY campaign_id, kind',
+        { ids: campaignIds },
+        tx,
+      )
+    : [];
+  const out = new Map<string, Balances>();
+  for (const id of campaignIds) out.set(id, balancesOf(rows.filter((r) => r.campaign_id === id).map((r) => ({ kind: r.kind, milli: Number(r.milli) }))));
+  return out;
+}
+
+export const ledgerRepository = {
+  async balances(campaignId: string, tx?: Transaction): Promise<Balances> {
+    return (await sumsByKind([campaignId], tx)).get(campaignId)!;
+  },
+
+  balancesOfMany: sumsByKind,
+
+  async append(entry: NewEntry, tx: Transaction): Promise<string> {
+    const row = await LedgerEntry.create(
+      {
+        campaignId: entry.campaignId,
+        kind: entry.kind,
+        milli: entry.milli,
+        runId: entry.runId ?? null,
+        counterpartCampaignId: entry.counterpartCampaignId ?? null,
+        reason: entry.reason ?? null,
+        overdraft: entry.overdraft ?? false,
+        actorPersonId: entry.actorPersonId,
+      },
+      { transaction: tx },
+    );
+    return String(row.id);
+  },
+
+  /** Every entry of a campaign, oldest first, with the balance after each. */
+  async entries(campaignId: string, tx?: Transaction): Promise<EntryDto[]> {
+    const rows = await LedgerEntry.findAll({
+      where: { campaignId },
+      include: [
+        { model: Person, as: 'actor', attributes: ['name'] },
+        { model: Run, as: 'run', attributes: ['externalJobId'] },
+        { model: Campaign, as: 'counterpart', attributes: ['title'] },
+      ],
+      order: [['id', 'ASC']],
+      transaction: tx,
+    });
+    let balance = 0;
+    return rows.map((r) => {
+      const milli = Number(r.milli);
+      balance += milli;
+      const extra = r as unknown as { actor?: { name: string } | null; run?: { externalJobId: string } | null; counterpart?: { title: string } | null };
+      return {
+        id: String(r.id),
+        campaignId: r.campaignId,
+        kind: r.kind,
+        coreHours: fromMilli(milli),
+        balanceAfter: fromMilli(balance),
+        runId: r.runId,
+        externalJobId: extra.run?.externalJobId ?? null,
+        counterpartCampaignId: r.counterpartCampaignId,
+        counterpartTitle: extra.counterpart?.title ?? null,
+        reason: r.reason,
+        overdraft: r.overdraft,
+        actorName: extra.actor?.name ?? null,
+        createdAt: r.createdAt.toISOString(),
+      };
+    });
+  },
+
+  async find(id: string, tx?: Transaction): Promise<EntryDto | null> {
+    const row = await LedgerEntry.findByPk(id, { transaction: tx });
+    if (!row) return null;
+    return (await this.entries(row.campaignId, tx)).find((e) => e.id === id) ?? null;
+  },
+
+  /** Milli-core-hours debited for a run less what was refunded of it. */
+  async runNetDebit(runId: string, tx?: Transaction): Promise<number> {
+    const [row] = await q<{ milli: string | null }>('SELECT sum(milli)::text AS milli FROM ledger_entries WHERE run_id = :runId', { runId }, tx);
+    return -Number(row?.milli ?? 0);
+  },
+
+  async alertedThresholds(campaignId: string, tx?: Transaction): Promise<number[]> {
+    return (await UsageAlert.findAll({ where: { campaignId }, order: [['threshold', 'ASC']], transaction: tx })).map((a) => a.threshold);
+  },
+
+  /** Record a threshold as alerted; false if it already was (so the alert goes out once). */
+  async markAlerted(campaignId: string, threshold: number, tx: Transaction): Promise<boolean> {
+    const [, created] = await UsageAlert.findOrCreate({ where: { campaignId, threshold }, defaults: { campaignId, threshold }, transaction: tx });
+    return created;
+  },
+
+  /**
+   * Lock a round's pool on a machine and read what its campaigns were granted (grants,
+   * adjustments and transfers, which all count against the pool), by group.
+   */
+  async poolUsage(roundId: string, machine: string, tx?: Transaction, lock = false): Promise<PoolUsage | null> {
+    const [pool] = await q<{ core_hours: string }>(
+      `SELECT core_hours::text FROM round_pools WHERE round_id = :roundId AND machine = :machine${lock && tx ? ' FOR NO KEY UPDATE' : ''}`,
+      { roundId, machine },
+      tx,
+    );
+    if (!pool) return null;
+    const groups = await q<{ group_id: string; group_name: string; granted: string; used: string; expired: string }>(
+      `SELECT c.group_id, g.name AS group_name,
+              coalesce(sum(e.milli) FILTER (WHERE e.kind IN ('grant', 'adjustment', 'transfer')), 0)::text AS granted,
+              coalesce(-sum(e.milli) FILTER (WHERE e.kind IN ('debit', 'refund')), 0)::text AS used,
+              coalesce(-sum(e.milli) FILTER (WHERE e.kind = 'expiry'), 0)::text AS expired
+         FROM campaigns c
+         JOIN research_groups g ON g.id = c.group_id
+         JOIN ledger_entries e ON e.campaign_id = c.id
+        WHERE c.round_id = :roundId AND c.machine = :machine
+        GROUP BY c.group_id, g.name
+        ORDER BY g.name`,
+      { roundId, machine },
+      tx,
+    );
+    const byGroup = groups.map((g) => {
+      const granted = Number(g.granted);
+      const used = Number(g.used);
+      return { groupId: g.group_id, groupName: g.group_name, granted: fromMilli(granted), used: fromMilli(used), remaining: fromMilli(granted - used - Number(g.expired)), grantedMilli: granted };
+    });
+    const grantedMilli = byGroup.reduce((s, g) => s + g.grantedMilli, 0);
+    const poolMilli = Number(pool.core_hours) * 1000;
+    const used = byGroup.reduce((s, g) => s + g.used, 0);
+    const remaining = byGroup.reduce((s, g) => s + g.remaining, 0);
+    return {
+      roundId,
+      machine,
+      pool: fromMilli(poolMilli),
+      granted: fromMilli(grantedMilli),
+      used: Math.round(used * 1000) / 1000,
+      remaining: Math.round(remaining * 1000) / 1000,
+      unallocated: fromMilli(poolMilli - grantedMilli),
+      groups: byGroup.map(({ grantedMilli: _g, ...g }) => g),
+    };
+  },
+
+  /** Campaigns of rounds whose allocation period has ended and that have no expiry entry yet. */
+  async campaignsToExpire(now: Date, tx?: Transaction): Promise<string[]> {
+    const rows = await q<{ id: string }>(
+      `SELECT c.id FROM campaigns c JOIN rounds r ON r.id = c.round_id
+        WHERE r.allocation_ends_at <= :now AND c.state IN ('granted', 'partly-granted')
+          AND NOT EXISTS (SELECT 1 FROM ledger_entries e WHERE e.campaign_id = c.id AND e.kind = 'expiry')`,
+      { now },
+      tx,
+    );
+    return rows.map((r) => r.id);
+  },
+
+  async hasExpiry(campaignId: string, tx?: Transaction): Promise<boolean> {
+    return (await LedgerEntry.count({ where: { campaignId, kind: 'expiry' }, transaction: tx })) > 0;
+  },
+
+  /** Granted milli-core-hours per machine of a round, to refuse shrinking a pool below them. */
+  async grantedPerMachine(roundId: string, tx?: Transaction): Promise<Map<string, number>> {
+    const rows = await q<{ machine: string; granted: string }>(
+      `SELECT c.machine, coalesce(sum(e.milli), 0)::text AS granted FROM campaigns c JOIN ledger_entries e ON e.campaign_id = c.id
+        WHERE c.round_id = :roundId AND e.kind IN ('grant', 'adjustment', 'transfer') GROUP BY c.machine`,
+      { roundId },
+      tx,
+    );
+    return new Map(rows.map((r) => [r.machine, Number(r.granted)]));
+  },
+};

@@ -1,0 +1,177 @@
+import { UniqueConstraintError, type Transaction } from 'sequelize';
+import {
+  errors,
+  formatCoreHours,
+  fromMilli,
+  judgeDebit,
+  parseRunImport,
+  runMilliCoreHours,
+  toMilli,
+  type ImportRow,
+  type Run,
+  type RunImportRequest,
+  type RunImportResult,
+  type RunInput,
+  type RunListQuery,
+} from '@localis/shared';
+import type { Database } from '../db';
+import type { RequestContext } from '../http/principal';
+import { actsAsAdmin } from '../http/acts-as-admin';
+import { auditService } from '../audit/audit.service';
+import type { CampaignRecord } from '../campaigns/campaigns.repository';
+import type { CampaignsService } from '../campaigns/campaigns.service';
+import type { LedgerService } from '../ledger/ledger.service';
+import { ledgerRepository } from '../ledger/ledger.repository';
+import { roundsRepository } from '../rounds/rounds.repository';
+import { runsRepository } from './runs.repository';
+
+/** A run's core-hours: as given, or cores x wall-clock. */
+export const runMilli = (r: RunInput) => (r.coreHours !== undefined ? toMilli(r.coreHours) : runMilliCoreHours(r.cores, r.startedAt, r.endedAt));
+
+const sourceOf = (ctx: RequestContext): Run['source'] => (ctx.principal?.via === 'token' ? 'api' : 'portal');
+
+/** Runs: jobs on the machines, each debiting its campaign's grant in the same transaction. */
+export function createRunsService(db: Database, campaigns: CampaignsService, ledger: LedgerService) {
+  async function requireRecorder(ctx: RequestContext, c: CampaignRecord, tx?: Transaction): Promise<void> {
+    const p = ctx.principal!;
+    if (actsAsAdmin(p) || (await campaigns.isGroupMember(c, p.personId, tx))) return;
+    throw errors.forbidden(`Runs of "${c.title}" are recorded by members of ${c.groupName} or the consortium office.`);
+  }
+
+  function requireMachine(c: CampaignRecord, machine: string, path: (string | number)[] = ['machine']) {
+    if (machine !== c.machine) {
+      throw errors.invalid(`"${c.title}" was granted core-hours on ${c.machine}; a run on ${machine} cannot be charged to it.`, [{ path, message: `runs of this campaign are on ${c.machine}` }]);
+    }
+  }
+
+  async function insertRun(ctx: RequestContext, c: CampaignRecord, input: RunInput, source: Run['source'], tx: Transaction): Promise<string> {
+    const milli = runMilli(input);
+    if (milli <= 0) throw errors.invalid('The run is too short to charge (under 0.001 core-hour).', [{ path: ['endedAt'], message: 'a run must last at least a few core-seconds' }]);
+    let id: string;
+    try {
+      id = await runsRepository.create({ ...input, campaignId: c.id, milli, source, recordedByPersonId: ctx.principal?.via === 'system' ? null : ctx.principal!.personId }, tx);
+    } catch (e) {
+      if (e instanceof UniqueConstraintError) throw errors.conflict(`Job ${input.externalJobId} on ${input.machine} is recorded already; a job is charged once.`);
+      throw e;
+    }
+    await ledger.debitIn(ctx, c, { id, externalJobId: input.externalJobId, milli }, tx);
+    return id;
+  }
+
+  /** Check every row of an import; nothing is written. */
+  async function preview(c: CampaignRecord, request: RunImportRequest, tx?: Transaction): Promise<RunImportResult & { fileError: string | null }> {
+    const parsed = parseRunImport(request, c.machine);
+    const recorded = await runsRepository.recordedJobIds(c.machine, parsed.rows.flatMap((r) => (r.input ? [r.input.externalJobId] : [])), tx);
+    const seen = new Map<string, number>();
+    let totalMilli = 0;
+    const rows: ImportRow[] = parsed.rows.map((r) => {
+      const errorsOfRow = [...r.errors];
+      if (r.input && r.input.machine !== c.machine) errorsOfRow.push(`machine ${r.input.machine}: this campaign's runs are on ${c.machine}`);
+      const jobId = r.input?.externalJobId ?? r.raw[parsed.columns.find((col) => parsed.mapping[col] === 'externalJobId') ?? ''] ?? null;
+      let duplicate: ImportRow['duplicate'] = null;
+      if (jobId) {
+        if (seen.has(jobId)) duplicate = 'in-file';
+        else if (recorded.has(jobId)) duplicate = 'recorded';
+        if (!seen.has(jobId)) seen.set(jobId, r.line);
+      }
+      if (duplicate === 'in-file') errorsOfRow.push(`job ${jobId} appears already on line ${seen.get(jobId!)}`);
+      if (duplicate === 'recorded') errorsOfRow.push(`job ${jobId} is recorded already on ${c.machine}`);
+      const milli = r.input ? runMilli(r.input) : null;
+      if (milli !== null && !errorsOfRow.length) totalMilli += milli;
+      return {
+        line: r.line,
+        externalJobId: jobId || null,
+        startedAt: r.input?.startedAt ?? null,
+        endedAt: r.input?.endedAt ?? null,
+        cores: r.input?.cores ?? null,
+        coreHours: milli === null ? null : fromMilli(milli),
+        errors: errorsOfRow,
+        duplicate,
+      };
+    });
+    const balances = await ledgerRepository.balances(c.id, tx);
+    const round = await roundsRepository.find(c.roundId, tx);
+    const verdict = judgeDebit(balances, totalMilli, round?.overdraftPercent ?? 0);
+    const granted = c.state === 'granted' || c.state === 'partly-granted';
+    return {
+      dryRun: true,
+      committed: false,
+      columns: parsed.columns,
+      mapping: parsed.mapping,
+      unknownColumns: parsed.unknownColumns,
+      missingFields: parsed.missingFields,
+      rows,
+      summary: {
+        rows: rows.length,
+        valid: rows.filter((r) => !r.errors.length).length,
+        withErrors: rows.filter((r) => r.errors.length).length,
+        duplicates: rows.filter((r) => r.duplicate).length,
+        coreHours: fromMilli(totalMilli),
+      },
+      ledger: { remaining: fromMilli(balances.remaining), after: fromMilli(verdict.remainingAfter), allowed: granted && verdict.allowed, overdraft: verdict.allowed && verdict.overdraft },
+      runIds: [],
+      fileError: parsed.fileError,
+    };
+  }
+
+  /** Every reason an import cannot be committed, as error details (nothing is written). */
+  function problemsOf(result: RunImportResult & { fileError: string | null }, c: CampaignRecord) {
+    const details: { path: (string | number)[]; message: string }[] = [];
+    if (result.fileError) details.push({ path: ['csv'], message: result.fileError });
+    for (const col of result.unknownColumns) details.push({ path: ['mapping', col], message: `column "${col}" is not known: map it to a run field or to "ignore"` });
+    for (const f of result.missingFields) details.push({ path: ['mapping'], message: `no column gives ${f}` });
+    for (const r of result.rows) for (const m of r.errors) details.push({ path: ['csv', r.line], message: `line ${r.line}: ${m}` });
+    if (!details.length && !result.ledger.allowed) {
+      details.push({
+        path: ['csv'],
+        message: c.state === 'granted' || c.state === 'partly-granted'
+          ? `the runs need ${formatCoreHours(toMilli(result.summary.coreHours))} core-hours; "${c.title}" has ${formatCoreHours(toMilli(result.ledger.remaining))} left`
+          : `"${c.title}" is not granted; runs are charged only to granted campaigns`,
+      });
+    }
+    return details;
+  }
+
+  return {
+    async list(ctx: RequestContext, campaignId: string, q: RunListQuery) {
+      await campaigns.findVisible(ctx, campaignId);
+      return runsRepository.list(campaignId, q);
+    },
+
+    create(ctx: RequestContext, campaignId: string, input: RunInput, source: Run['source'] = sourceOf(ctx)): Promise<Run> {
+      return db.transaction(async (tx) => {
+        // The lock queues every charge to this campaign: balances are read and written one at a time.
+        const c = await campaigns.findVisible(ctx, campaignId, tx, true);
+        await requireRecorder(ctx, c, tx);
+        requireMachine(c, input.machine);
+        const id = await insertRun(ctx, c, input, source, tx);
+        await auditService.record(ctx, 'run.recorded', { type: 'campaign', id: c.id }, { runId: id, externalJobId: input.externalJobId, machine: input.machine }, tx);
+        return (await runsRepository.find(id, tx))!;
+      });
+    },
+
+    async importRuns(ctx: RequestContext, campaignId: string, request: RunImportRequest, dryRun: boolean): Promise<RunImportResult> {
+      if (dryRun) {
+        const c = await campaigns.findVisible(ctx, campaignId);
+        await requireRecorder(ctx, c);
+        const { fileError: _f, ...result } = await preview(c, request);
+        return result;
+      }
+      return db.transaction(async (tx) => {
+        const c = await campaigns.findVisible(ctx, campaignId, tx, true);
+        await requireRecorder(ctx, c, tx);
+        // Checked again under the lock: what was previewed may have changed since.
+        const result = await preview(c, request, tx);
+        const problems = problemsOf(result, c);
+        if (problems.length) throw errors.invalid(`The import was not recorded: ${problems.length} problem${problems.length > 1 ? 's' : ''} to fix first. Nothing was written.`, problems.slice(0, 200));
+        const parsed = parseRunImport(request, c.machine);
+        const runIds: string[] = [];
+        for (const row of parsed.rows) runIds.push(await insertRun(ctx, c, row.input!, 'import', tx));
+        await auditService.record(ctx, 'run.imported', { type: 'campaign', id: c.id }, { runs: runIds.length, coreHours: result.summary.coreHours }, tx);
+        const { fileError: _f, ...rest } = result;
+        return { ...rest, dryRun: false, committed: true, runIds };
+      });
+    },
+  };
+}
+export type RunsService = ReturnType<typeof createRunsService>;

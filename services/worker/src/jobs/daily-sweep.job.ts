@@ -1,0 +1,29 @@
+import { z } from 'zod';
+import { QUEUES } from '@localis/shared';
+import { sendRoundClosingNotices } from '@localis/api/notifications/round-closing-notices';
+import { expireEndedAllocations } from '@localis/api/ledger/ledger-expiry';
+import type { JobDefinition } from './job';
+
+/** One scheduler under a fixed id: a restarted worker replaces it instead of adding a second. */
+export const DAILY_SWEEP_SCHEDULER_ID = 'localis-daily-sweep';
+
+/**
+ * The chores are due once a day, but the sweep runs every hour: a worker that was down at the
+ * wrong moment never skips a day, and each chore marks what it did, so running again is harmless.
+ */
+export const DAILY_SWEEP_EVERY_MS = 3_600_000;
+
+export const DailySweepData = z.object({});
+
+/** Round-closing notices (14 days ahead) and the expiry of grants whose allocation period ended. */
+export const dailySweepJob: JobDefinition<typeof DailySweepData> = {
+  name: QUEUES.dailySweep,
+  schema: DailySweepData,
+  async process(_data, { settings, db, logger }) {
+    const now = new Date();
+    const noticed = await sendRoundClosingNotices(db, now, settings.PUBLIC_URL);
+    const expired = await expireEndedAllocations(db, now);
+    logger.info({ roundClosingNotices: noticed.length, expiredAllocations: expired }, 'daily sweep done');
+    return { roundClosingNotices: noticed, expiredAllocations: expired };
+  },
+};

@@ -1,0 +1,2 @@
+export * from './ledger-math';
+export * from './ledger.schema';

@@ -1,0 +1,2 @@
+export * from './run.schema';
+export * from './run-import';
