@@ -2,7 +2,7 @@ import { randomUUID } from 'node:crypto';
 import { spawn } from 'node:child_process';
 import { join } from 'node:path';
 import { CampaignInput, CampaignSpec, estimateReport, loadSettings, TOKEN_SCOPES } from '@localis/shared';
-import { Campaign, openDatabase, Person, RoleGrant } from '@localis/api/db';
+import { Campaign, LedgerEntry, openDatabase, Person, RoleGrant, Run } from '@localis/api/db';
 import { createServices, SYSTEM_CONTEXT } from '@localis/api/services';
 
 /**
@@ -23,7 +23,7 @@ interface Result {
   p99: number;
 }
 
-async function load(name: string, url: string, headers: Record<string, string>, total: number, concurrency: number, body?: unknown): Promise<Result> {
+async function load(name: string, url: string, headers: Record<string, string>, total: number, concurrency: number, body?: unknown | (() => unknown)): Promise<Result> {
   const latencies: number[] = [];
   let next = 0;
   const start = performance.now();
@@ -32,7 +32,8 @@ async function load(name: string, url: string, headers: Record<string, string>, 
       while (next < total) {
         next++;
         const t0 = performance.now();
-        const res = await fetch(url, body === undefined ? { headers } : { method: 'POST', headers: { ...headers, 'content-type': 'application/json' }, body: JSON.stringify(body) });
+        const payload = typeof body === 'function' ? body() : body;
+        const res = await fetch(url, payload === undefined ? { headers } : { method: 'POST', headers: { ...headers, 'content-type': 'application/json' }, body: JSON.stringify(payload) });
         await res.arrayBuffer();
         if (!res.ok) throw new Error(`${name}: HTTP ${res.status}`);
         latencies.push(performance.now() - t0);
@@ -61,7 +62,7 @@ const services = createServices(db, settings);
 const admin = await services.people.create(SYSTEM_CONTEXT, { name: 'Bench Admin', email: `bench-${randomUUID().slice(0, 6)}@bench.example`, institutionId: null, roles: ['admin'] });
 const { secret } = await services.tokens.create(
   { ...SYSTEM_CONTEXT, principal: { personId: admin.id, name: admin.name, email: admin.email, institutionId: null, roles: ['admin'], scopes: [...TOKEN_SCOPES], via: 'session' } },
-  { name: 'bench', scopes: ['read'], expiresInDays: 1 },
+  { name: 'bench', scopes: ['read', 'runs'], expiresInDays: 1 },
 );
 const ROWS = 5000;
 /** About the requests a busy consortium sends at once: a handful of people and scripts. */
@@ -89,6 +90,21 @@ await Campaign.bulkCreate(Array.from({ length: ROWS }, (_, i) => ({
   requestedCoreHours: 1000 + ((i * 7919) % 100_000), submittedAt: i % STATES.length ? new Date() : null, createdAt: undefined, updatedAt: undefined,
 })));
 
+// One granted campaign with RUNS runs, each with its debit: the ledger and runs pages of a busy campaign.
+const RUNS = 5000;
+const busySubmitted = await services.campaigns.submit(adminCtx, (await services.campaigns.create(adminCtx, CampaignInput.parse({ title: 'Bench busy campaign', abstract: 'A granted campaign with thousands of runs.', groupId: group.id, roundId: round.id, machine: 'bench-cluster', spec: EXAMPLE_SPEC }))).id);
+await services.reviews.decide(adminCtx, busySubmitted.id, { outcome: 'grant-all', message: 'Granted for the benchmark.' });
+await services.ledger.adjust(adminCtx, busySubmitted.id, { coreHours: 1e8, reason: 'room for the benchmark runs' });
+const busy = busySubmitted.id;
+const runRows = Array.from({ length: RUNS }, (_, i) => ({
+  id: randomUUID(), campaignId: busy, externalJobId: `bench-${i}`, machine: 'bench-cluster', startedAt: new Date(Date.now() - (RUNS - i) * 3_600_000), endedAt: new Date(Date.now() - (RUNS - i) * 3_600_000 + 1_800_000),
+  cores: 64, coreHoursMilli: 32_000, codeName: 'tmm-bar', codeVersion: 'bench', parameters: { sizes: [12], disorder: [16.5], energies: [0], seeds: [i] }, source: 'api' as const, recordedByPersonId: admin.id,
+}));
+await Run.bulkCreate(runRows);
+await LedgerEntry.bulkCreate(runRows.map((r) => ({ campaignId: busy, kind: 'debit' as const, milli: -32_000, runId: r.id, counterpartCampaignId: null, reason: null, actorPersonId: admin.id })));
+let benchJob = 0;
+const freshRun = () => ({ externalJobId: `bench-live-${++benchJob}-${randomUUID().slice(0, 6)}`, machine: 'bench-cluster', startedAt: '2027-02-01T08:00:00Z', endedAt: '2027-02-01T09:00:00Z', cores: 64, codeName: 'tmm-bar', codeVersion: 'bench' });
+
 const auth = { authorization: `Bearer ${secret}` };
 const results: Result[] = [];
 for (const [name, path, headers, body] of [
@@ -97,6 +113,9 @@ for (const [name, path, headers, body] of [
   [`GET /api/v1/people (${ROWS} rows, filter + sort, page of 50)`, '/api/v1/people?role=researcher&sort=-email&limit=50&offset=500', auth, undefined],
   [`GET /api/v1/campaigns (${ROWS} rows, filters + sort, page of 50)`, '/api/v1/campaigns?state=submitted&method=transfer-matrix&dimension=3&sort=-requestedCoreHours&limit=50&offset=50', auth, undefined],
   ['POST /api/v1/estimates (example spec)', '/api/v1/estimates', auth, EXAMPLE_SPEC],
+  [`GET /api/v1/campaigns/:id/ledger (${RUNS + 2} entries, balances)`, `/api/v1/campaigns/${busy}/ledger`, auth, undefined],
+  [`GET /api/v1/campaigns/:id/runs (${RUNS} runs, search + sort, page of 50)`, `/api/v1/campaigns/${busy}/runs?q=bench-4&sort=-coreHours&limit=50`, auth, undefined],
+  ['POST /api/v1/campaigns/:id/runs (one campaign, debits queue on its lock)', `/api/v1/campaigns/${busy}/runs`, auth, freshRun],
 ] as const) {
   await load(name, url + path, headers, 100, CONCURRENCY, body); // warm-up
   results.push(await load(name, url + path, headers, 2000, CONCURRENCY, body));
@@ -124,12 +143,15 @@ for (const r of results) console.log(r.name.padEnd(62), fmt(r.requests / r.secon
 const ms3 = (n: number) => n.toFixed(3).padStart(8);
 console.log(`${'estimate in process, example spec (median ms)'.padEnd(62)} ${''.padStart(8)} ${ms3(estimateExample)}`);
 console.log(`${'estimate in process, 64 sizes x 100,000 W points (median ms)'.padEnd(62)} ${''.padStart(8)} ${ms3(estimateLargest)}`);
-const [base, me, list, campaigns, estimate] = results;
+const [base, me, list, campaigns, estimate, ledger, runs, record] = results;
 const targets = [
   { what: 'signed request p95', value: me.p95, target: 50 },
   { what: `${ROWS}-row list p95`, value: list.p95, target: 100 },
   { what: `${ROWS}-campaign list p95`, value: campaigns.p95, target: 100 },
   { what: 'estimate request p95', value: estimate.p95, target: 50 },
+  { what: `ledger of ${RUNS} runs p95`, value: ledger.p95, target: 250 },
+  { what: `runs page of ${RUNS} p95`, value: runs.p95, target: 100 },
+  { what: 'record a run p95 (contended)', value: record.p95, target: 100 },
   { what: 'largest live estimate', value: estimateLargest, target: 16 },
 ];
 console.log('\nratios');

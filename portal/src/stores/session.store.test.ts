@@ -43,6 +43,7 @@ describe('useSessionStore', () => {
       expect(fetchMock).toHaveBeenCalledOnce();
       expect(session.signedIn).toBe(true);
       expect(session.csrfToken).toBe('c1');
+      expect(session.mailInboxUrl).toBeNull();
       expect(session.hasRole('admin')).toBe(true);
       expect(session.hasRole('billing')).toBe(false);
     });

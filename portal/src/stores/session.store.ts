@@ -9,6 +9,8 @@ export const useSessionStore = defineStore('session', () => {
   const signedIn = ref(false);
   const person = ref<SessionPerson | null>(null);
   const csrfToken = ref<string | null>(null);
+  /** The demo mail fake's inbox, given to admins by the demo and test stacks. */
+  const mailInboxUrl = ref<string | null>(null);
   /** Set when the session could not be learned at all (server down): the app then acts signed out. */
   const loadError = ref<string | null>(null);
 
@@ -26,10 +28,12 @@ export const useSessionStore = defineStore('session', () => {
       signedIn.value = info.signedIn && info.person !== null;
       person.value = info.person;
       csrfToken.value = info.csrfToken;
+      mailInboxUrl.value = info.mailInboxUrl;
       loadError.value = null;
     } catch (error) {
       signedIn.value = false;
       person.value = null;
+      mailInboxUrl.value = null;
       loadError.value = isApiError(error) ? error.message : 'The session could not be loaded.';
     } finally {
       loaded.value = true;
@@ -50,5 +54,5 @@ export const useSessionStore = defineStore('session', () => {
     return sessionApi.signOut();
   }
 
-  return { loaded, signedIn, person, csrfToken, loadError, roles, hasRole, load, signOut };
+  return { loaded, signedIn, person, csrfToken, mailInboxUrl, loadError, roles, hasRole, load, signOut };
 });

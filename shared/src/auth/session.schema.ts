@@ -16,6 +16,8 @@ export const SessionInfo = z
     signedIn: z.boolean(),
     person: SessionPerson.nullable(),
     csrfToken: z.string(),
+    /** The local mail fake's inbox (demo and test stacks), for admins only; null otherwise. */
+    mailInboxUrl: z.url().nullable().default(null),
   })
   .meta({ id: 'SessionInfo' });
 export type SessionInfo = z.infer<typeof SessionInfo>;

@@ -36,6 +36,22 @@ describe('sign-in', () => {
       expect(after.items[0].lastSignInAt).not.toBeNull();
     });
 
+    it('should give admins alone the link to the mail inbox of the demo and test stacks', async () => {
+      const withInbox = await startTestApp({ MAIL_INBOX_URL: 'http://127.0.0.1:1081/index.html' });
+      try {
+        const admin = await createPerson(withInbox, { roles: ['admin'], label: 'inbox-admin' });
+        const researcher = await createPerson(withInbox, { roles: ['researcher'], label: 'inbox-researcher' });
+        const asAdmin = new BrowserSession(withInbox.url);
+        await asAdmin.signIn(admin.email);
+        const asResearcher = new BrowserSession(withInbox.url);
+        await asResearcher.signIn(researcher.email);
+        expect((await asAdmin.refreshSession()).mailInboxUrl).toBe('http://127.0.0.1:1081/index.html');
+        expect((await asResearcher.refreshSession()).mailInboxUrl).toBeNull();
+      } finally {
+        await withInbox.close();
+      }
+    });
+
     it('should rotate the session id at sign-in when a session existed before', async () => {
       const person = await createPerson(t, { roles: ['researcher'], label: 'rotate' });
       const browser = new BrowserSession(t.url);
