@@ -22,7 +22,7 @@ export function profileEnv(mode: 'start' | 'dev' | 'test' | 'bench' | 'stop', fo
     base.LOCALIS_PROFILE = mode === 'dev' ? 'dev' : 'demo';
   }
   // The stacks we start run the mail fake: admins get a link to its inbox (not the benchmark's).
-  if (mode !== 'bench') base.MAIL_INBOX_URL ??= `http://127.0.0.1:${base.MAIL_INBOX_PORT ?? '1080'}/index.html`;
+  if (mode !== 'bench') base.MAIL_INBOX_URL ||= `http://127.0.0.1:${base.MAIL_INBOX_PORT ?? '1080'}/index.html`;
   base.AWS_SDK_JS_NODE_VERSION_SUPPORT_WARNING_DISABLED = 'true';
   // Resolve the data folder once so every child agrees whatever its working directory.
   base.DATA_DIR = resolve(ROOT, base.DATA_DIR ?? '.data');

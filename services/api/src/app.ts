@@ -148,7 +148,7 @@ export function createApp(deps: AppDeps) {
       authorize(route.access),
       csrfProtection,
       validate(route.request),
-      idempotency,
+      ...(route.idempotency === false ? [] : [idempotency]),
       route.handler as (req: Request, res: Response, next: NextFunction) => unknown,
     ];
     app[route.method](fullPath(route), ...chain);

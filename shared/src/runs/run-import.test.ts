@@ -317,3 +317,11 @@ describe('parseElapsed', () => {
     for (const text of ['', 'soon', '-5', '1:2', '1-', '12:00:00:00']) expect(parseElapsed(text), text).toBeNull();
   });
 });
+
+describe('line numbers with spreadsheet line breaks', () => {
+  it('should name the line a row starts on when a quoted cell spans CRLF lines', () => {
+    const csv = 'JobID,JobName,Start,End,AllocCPUS\r\n1,"two\r\nlines",2027-02-01T08:00:00,2027-02-01T09:00:00,4\r\n2,tmm,2027-02-01T08:00:00,2027-02-01T09:00:00,4\r\n3,tmm,bad,2027-02-01T09:00:00,4\r\n';
+    const parsed = parseRunImport({ csv, defaults: { codeVersion: 'v1' } }, 'cluster-a');
+    expect(parsed.rows.map((r) => r.line)).toEqual([2, 4, 5]);
+  });
+});

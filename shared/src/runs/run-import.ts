@@ -171,7 +171,9 @@ export function parseRunImport(request: RunImportRequest, machine: string): Pars
   // so the record's index alone would point people at the wrong line.
   const startLines: number[] = [];
   try {
-    const parsed = parse(request.csv, { bom: true, skip_empty_lines: true, relax_column_count: true, trim: true, info: true }) as unknown as {
+    // One kind of line break, so the reader's line numbers match what people see (spreadsheets write CRLF,
+    // also inside quoted cells).
+    const parsed = parse(request.csv.replace(/\r\n?/g, '\n'), { bom: true, skip_empty_lines: true, relax_column_count: true, trim: true, info: true }) as unknown as {
       record: string[];
       info: { lines: number; empty_lines: number };
     }[];

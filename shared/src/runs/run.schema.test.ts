@@ -79,9 +79,13 @@ describe('RunInput', () => {
       expect(issuesOf({ cores: '128' })).toEqual([[['cores'], 'cores must be a number']]);
     });
 
-    it('should refuse core-hours of 0 or below', () => {
-      expect(issuesOf({ coreHours: 0 })).toEqual([[['coreHours'], 'coreHours must be positive']]);
-      expect(issuesOf({ coreHours: -1 })).toEqual([[['coreHours'], 'coreHours must be positive']]);
+    it('should refuse core-hours under 0.001 (less than the ledger can hold) or with more than three decimals', () => {
+      const tooSmall = 'coreHours must be at least 0.001 (3.6 core-seconds)';
+      expect(issuesOf({ coreHours: 0 })).toEqual([[['coreHours'], tooSmall]]);
+      expect(issuesOf({ coreHours: -1 })).toEqual([[['coreHours'], tooSmall]]);
+      expect(issuesOf({ coreHours: 0.0004 })).toEqual([[['coreHours'], tooSmall], [['coreHours'], 'coreHours have at most three decimals']]);
+      expect(issuesOf({ coreHours: 12.0005 })).toEqual([[['coreHours'], 'coreHours have at most three decimals']]);
+      expect(RunInput.safeParse({ ...EXAMPLE_RUN, coreHours: 0.001 }).success).toBe(true);
     });
   });
 

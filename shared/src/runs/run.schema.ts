@@ -28,7 +28,8 @@ const RunFields = z.object({
   coreHours: z
     .number({ message: 'coreHours must be a number' })
     .refine(Number.isFinite, 'coreHours must be finite')
-    .refine((v) => v > 0, 'coreHours must be positive')
+    .refine((v) => v >= 0.001, 'coreHours must be at least 0.001 (3.6 core-seconds)')
+    .refine((v) => Math.abs(v * 1000 - Math.round(v * 1000)) < 1e-6, 'coreHours have at most three decimals')
     .refine((v) => v <= 1e12, 'that is more core-hours than Localis accepts (10^12)')
     .optional(),
   codeName: z.string().trim().min(1, 'name the code that ran').max(100),

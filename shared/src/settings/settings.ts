@@ -46,7 +46,7 @@ export const Settings = z.object({
   SMTP_PORT: port.default(1025),
   MAIL_INBOX_PORT: port.default(1080),
   /** The local mail fake's inbox, linked for admins in the demo and test stacks; unset in production. */
-  MAIL_INBOX_URL: z.url().optional(),
+  MAIL_INBOX_URL: z.union([z.url(), z.literal('')]).default(''),
   MAIL_FROM: z.string().default('Localis <office@coldwater-network.example>'),
 
   STRIPE_PORT: port.default(12111),

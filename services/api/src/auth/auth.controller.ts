@@ -65,7 +65,7 @@ export function createAuthController(s: Settings, signIn: SignInService, logger:
         person: signedIn ? { id: p.personId, name: p.name, email: p.email, institutionId: p.institutionId, roles: p.roles } : null,
         // Only a signed-in session can write; anonymous visitors get no token, and so no stored session.
         csrfToken: signedIn ? generateCsrfToken(req) : '',
-        mailInboxUrl: signedIn && p.roles.includes('admin') ? (s.MAIL_INBOX_URL ?? null) : null,
+        mailInboxUrl: signedIn && p.roles.includes('admin') ? (s.MAIL_INBOX_URL || null) : null,
       };
       res.set('Cache-Control', 'no-store').json(body);
     },

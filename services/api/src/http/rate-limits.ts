@@ -52,18 +52,27 @@ function failedTokenGuard(redis: Redis, perMinute: number) {
   return async (req: Request, res: Response, next: NextFunction) => {
     if (req.get('authorization') === undefined) return next();
     const key = keyOf(req);
+    const count = () => redis.multi().incr(key).pexpire(key, 60_000, 'NX').exec();
+    let paidUpFront = false;
     try {
-      const [count, ttl] = await Promise.all([redis.get(key), redis.pttl(key)]);
-      if (Number(count ?? 0) >= perMinute) {
+      const [failures, ttl] = await Promise.all([redis.get(key), redis.pttl(key)]);
+      if (Number(failures ?? 0) >= perMinute) {
         const retry = Math.max(1, Math.ceil((ttl > 0 ? ttl : 60_000) / 1000));
         res.setHeader('Retry-After', String(retry));
         return next(errors.rateLimited(retry));
+      }
+      // An address that has failed already pays on arrival, so a parallel burst of guesses cannot
+      // all slip past the check; a request that turns out good gives its count back.
+      if (Number(failures ?? 0) > 0) {
+        await count();
+        paidUpFront = true;
       }
     } catch (e) {
       return next(e);
     }
     res.on('finish', () => {
-      if (res.statusCode === 401) void redis.multi().incr(key).pexpire(key, 60_000, 'NX').exec().catch(() => undefined);
+      if (res.statusCode === 401 && !paidUpFront) void count().catch(() => undefined);
+      else if (res.statusCode !== 401 && paidUpFront) void redis.decr(key).catch(() => undefined);
     });
     next();
   };

@@ -32,6 +32,8 @@ export interface RouteSpec {
   responses: Record<number, ResponseSpec>;
   /** Sign-in and sign-out pages that redirect; their rate limit is stricter. */
   signIn?: boolean;
+  /** `false` for answers that must never be stored or replayed (a new token's secret). */
+  idempotency?: false;
   handler: (req: Request, res: Response, next: NextFunction) => Promise<unknown> | unknown;
 }
 

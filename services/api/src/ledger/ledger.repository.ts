@@ -54,6 +54,17 @@ export const ledgerRepository = {
     return String(row.id);
   },
 
+  /** Many entries in one statement (an import's debits). */
+  async appendMany(entries: NewEntry[], tx: Transaction): Promise<void> {
+    await LedgerEntry.bulkCreate(
+      entries.map((e) => ({
+        campaignId: e.campaignId, kind: e.kind, milli: e.milli, runId: e.runId ?? null, counterpartCampaignId: e.counterpartCampaignId ?? null,
+        reason: e.reason ?? null, overdraft: e.overdraft ?? false, actorPersonId: e.actorPersonId,
+      })),
+      { transaction: tx },
+    );
+  },
+
   /** Every entry of a campaign, oldest first, with the balance after each. */
   async entries(campaignId: string, tx?: Transaction): Promise<EntryDto[]> {
     const rows = await LedgerEntry.findAll({
@@ -157,20 +168,25 @@ export const ledgerRepository = {
     };
   },
 
-  /** Campaigns of rounds whose allocation period has ended and that have no expiry entry yet. */
+  /**
+   * Campaigns of rounds whose allocation period has ended that still hold core-hours (a refund
+   * after an earlier expiry included): used-up ones are not visited again.
+   */
   async campaignsToExpire(now: Date, tx?: Transaction): Promise<string[]> {
     const rows = await q<{ id: string }>(
-      `SELECT c.id FROM campaigns c JOIN rounds r ON r.id = c.round_id
+      `SELECT c.id FROM campaigns c JOIN rounds r ON r.id = c.round_id JOIN ledger_entries e ON e.campaign_id = c.id
         WHERE r.allocation_ends_at <= :now AND c.state IN ('granted', 'partly-granted')
-          AND NOT EXISTS (SELECT 1 FROM ledger_entries e WHERE e.campaign_id = c.id AND e.kind = 'expiry')`,
+        GROUP BY c.id HAVING sum(e.milli) > 0`,
       { now },
       tx,
     );
     return rows.map((r) => r.id);
   },
 
-  async hasExpiry(campaignId: string, tx?: Transaction): Promise<boolean> {
-    return (await LedgerEntry.count({ where: { campaignId, kind: 'expiry' }, transaction: tx })) > 0;
+
+  /** Lock every pool of a round (in machine order, the order grants lock them in too). */
+  async lockPools(roundId: string, tx: Transaction): Promise<void> {
+    await q('SELECT machine FROM round_pools WHERE round_id = :roundId ORDER BY machine FOR NO KEY UPDATE', { roundId }, tx);
   },
 
   /** Granted milli-core-hours per machine of a round, to refuse shrinking a pool below them. */

@@ -119,11 +119,38 @@ export function createLedgerService(db: Database, campaigns: CampaignsService) {
       return { overdraft: verdict.overdraft };
     },
 
+    /**
+     * Debit many runs at once (an import), inside its transaction with the campaign locked: the
+     * policy is judged on the total, the entries are written in one statement, alerts once.
+     */
+    async debitManyIn(ctx: RequestContext, c: CampaignRecord, runs: { id: string; milli: number }[], tx: Transaction): Promise<void> {
+      requireGranted(c, 'runs are charged to');
+      const round = await roundOf(c, tx);
+      requireOpenAllocation(round, 'runs can be charged to it');
+      const balances = await ledgerRepository.balances(c.id, tx);
+      const total = runs.reduce((s, r) => s + r.milli, 0);
+      const verdict = judgeDebit(balances, total, round.overdraftPercent);
+      if (!verdict.allowed) {
+        throw errors.conflict(`These runs need ${ch(total)} but "${c.title}" has ${ch(balances.remaining)} left; they would go ${ch(verdict.shortBy)} beyond what the round allows. Nothing was written.`);
+      }
+      let remaining = balances.remaining;
+      const actor = actorOf(ctx);
+      await ledgerRepository.appendMany(
+        runs.map((r) => {
+          remaining -= r.milli;
+          return { campaignId: c.id, kind: 'debit' as const, milli: -r.milli, runId: r.id, overdraft: remaining < 0, actorPersonId: actor };
+        }),
+        tx,
+      );
+      await alertThresholds(c.id, tx);
+    },
+
     adjust(ctx: RequestContext, campaignId: string, input: AdjustmentInput): Promise<LedgerEntry> {
       return db.transaction(async (tx) => {
         if (!actsAsAdmin(ctx.principal!)) throw errors.forbidden('Only the consortium office adjusts grants.');
         const c = await campaigns.findVisible(ctx, campaignId, tx, true);
         requireGranted(c, 'adjustments apply to');
+        requireOpenAllocation(await roundOf(c, tx), 'its grant can be adjusted');
         const milli = toMilli(input.coreHours);
         if (milli > 0) await requirePoolRoom(c, milli, tx);
         else {
@@ -141,7 +168,7 @@ export function createLedgerService(db: Database, campaigns: CampaignsService) {
 
     transfer(ctx: RequestContext, campaignId: string, input: TransferInput): Promise<{ from: LedgerEntry; to: LedgerEntry }> {
       return db.transaction(async (tx) => {
-        if (input.toCampaignId === campaignId) throw errors.invalid('A transfer needs two different campaigns.', [{ path: ['toCampaignId'], message: 'choose another campaign of the group' }]);
+        if (input.toCampaignId.toLowerCase() === campaignId.toLowerCase()) throw errors.invalid('A transfer needs two different campaigns.', [{ path: ['toCampaignId'], message: 'choose another campaign of the group' }]);
         // Lock both rows in id order, so two opposite transfers cannot deadlock.
         const [first, second] = [campaignId, input.toCampaignId].sort();
         const locked = new Map<string, CampaignRecord>();
@@ -212,7 +239,7 @@ export function createLedgerService(db: Database, campaigns: CampaignsService) {
         await db.transaction(async (tx) => {
           const c = await campaigns.findVisible(ctx, id, tx, true);
           const balances = await ledgerRepository.balances(c.id, tx);
-          if (balances.remaining <= 0 || (await ledgerRepository.hasExpiry(c.id, tx))) return;
+          if (balances.remaining <= 0) return;
           await ledgerRepository.append({ campaignId: c.id, kind: 'expiry', milli: -balances.remaining, reason: 'allocation period ended', actorPersonId: null }, tx);
           await auditService.record(ctx, 'ledger.expiry', { type: 'campaign', id: c.id }, { coreHours: fromMilli(balances.remaining) }, tx);
           expired++;

@@ -2,9 +2,9 @@ import { randomUUID } from 'node:crypto';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import type { Ledger, LedgerEntry as EntryDto, Run } from '@localis/shared';
-import { startTestApp, withToken, type TestApp } from '../../test/harness';
+import { BrowserSession, startTestApp, type TestApp } from '../../test/harness';
 import { actingAs, makeCampaignWorld, type CampaignWorld } from '../../test/campaign-world';
-import { LedgerEntry, OutboxMessage, UsageAlert } from '../db/models';
+import { IdempotencyKey, LedgerEntry, OutboxMessage, UsageAlert } from '../db/models';
 
 let t: TestApp;
 let w: CampaignWorld;
@@ -219,6 +219,44 @@ describe('ledger and runs', () => {
       expect(ledger.entries.filter((e) => e.kind === 'debit').length).toBe(40);
     });
 
+    it('should give a client that gave up and retried the first answer, never a second transfer', async () => {
+      const from = await w.granted(1000);
+      const to = await w.granted(10);
+      const key = `abandoned-${randomUUID()}`;
+      const body = JSON.stringify({ toCampaignId: to, coreHours: 100, reason: 'the client times out and retries' });
+      const headers = { authorization: `Bearer ${w.tokens.pi}`, 'content-type': 'application/json', 'idempotency-key': key };
+      // Hold the campaign row, so the first request waits inside its transaction.
+      const holder = await t.db.sequelize.transaction();
+      await t.db.sequelize.query("SELECT id FROM campaigns WHERE id = :id FOR UPDATE", { replacements: { id: from }, transaction: holder });
+      const gaveUp = new AbortController();
+      const abandoned = fetch(`${t.url}/api/v1/campaigns/${from}/ledger/transfers`, { method: 'POST', headers, body, signal: gaveUp.signal }).catch(() => 'aborted');
+      await new Promise((r) => setTimeout(r, 300));
+      gaveUp.abort();
+      expect(await abandoned).toBe('aborted');
+      const retry = fetch(`${t.url}/api/v1/campaigns/${from}/ledger/transfers`, { method: 'POST', headers, body });
+      await new Promise((r) => setTimeout(r, 300));
+      await holder.commit();
+      const answer = await retry;
+      expect(answer.status).toBe(201);
+      expect(answer.headers.get('idempotent-replayed')).toBe('true');
+      const ledger = await ledgerOf(from);
+      expect(ledger.entries.filter((e) => e.kind === 'transfer').length).toBe(1);
+      expect(ledger.remaining).toBe(900);
+    });
+
+    it('should never store or replay the secret of a new API token', async () => {
+      const session = new BrowserSession(t.url);
+      await session.signIn(w.pi.email);
+      const key = `token-${randomUUID()}`;
+      const make = () => session.api('POST', '/api/v1/me/tokens', { name: 'made twice', scopes: ['read'], expiresInDays: 1 }, { 'idempotency-key': key });
+      const [a, b] = [await make(), await make()];
+      expect([a.status, b.status]).toEqual([201, 201]);
+      expect(b.headers.get('idempotent-replayed')).toBeNull();
+      const secrets = [((await a.json()) as { secret: string }).secret, ((await b.json()) as { secret: string }).secret];
+      expect(secrets[0]).not.toBe(secrets[1]);
+      expect(await IdempotencyKey.count({ where: { key } })).toBe(0);
+    });
+
     it('should answer 409 when a key is reused with another body, and replay the first answer for the same one', async () => {
       const id = await w.granted(5000);
       const key = `reuse-${randomUUID()}`;
@@ -278,13 +316,23 @@ describe('ledger and runs', () => {
       await call(world.tokens.pi, 'POST', `/campaigns/${id}/runs`, { ...run({ coreHours: 200 }), machine: world.machine });
       // Only this round's period ends before `later`; every other round of the test database runs for months.
       const hour = 3600_000;
-      await t.services.rounds.update(actingAs(world.admin), world.roundId, { closesAt: new Date(Date.now() - hour).toISOString(), allocationEndsAt: new Date(Date.now() + hour).toISOString() });
-      const later = new Date(Date.now() + 2 * hour);
-      expect(await t.services.ledger.expireEndedAllocations(actingAs(world.admin), later)).toBe(1);
-      expect(await t.services.ledger.expireEndedAllocations(actingAs(world.admin), later)).toBe(0);
-      const ledger = (await (await call(world.tokens.pi, 'GET', `/campaigns/${id}/ledger`)).json()) as Ledger;
+      await t.services.rounds.update(actingAs(world.admin), world.roundId, { closesAt: new Date(Date.now() - 2 * hour).toISOString(), allocationEndsAt: new Date(Date.now() - hour).toISOString() });
+      const later = new Date();
+      await t.services.ledger.expireEndedAllocations(actingAs(world.admin), later);
+      await t.services.ledger.expireEndedAllocations(actingAs(world.admin), later);
+      const ledgerOfWorld = async () => (await (await call(world.tokens.pi, 'GET', `/campaigns/${id}/ledger`)).json()) as Ledger;
+      const ledger = await ledgerOfWorld();
       expect(ledger).toMatchObject({ expired: 500, remaining: 0 });
-      expect(ledger.entries.at(-1)).toMatchObject({ kind: 'expiry', coreHours: -500 });
+      expect(ledger.entries.filter((e) => e.kind === 'expiry').map((e) => e.coreHours)).toEqual([-500]);
+
+      // A refund after the end is given back and then expires at the next sweep, like the rest.
+      const [debit] = ledger.entries.filter((e) => e.kind === 'debit');
+      expect((await call(world.tokens.admin, 'POST', `/campaigns/${id}/ledger/refunds`, { runId: debit.runId, coreHours: 50, reason: 'node failure found late' })).status).toBe(201);
+      // No new core-hours after the end: adjustments are refused, runs too.
+      expect((await call(world.tokens.admin, 'POST', `/campaigns/${id}/ledger/adjustments`, { coreHours: 10, reason: 'too late' })).status).toBe(409);
+      expect((await call(world.tokens.pi, 'POST', `/campaigns/${id}/runs`, { ...run({ coreHours: 1 }), machine: world.machine })).status).toBe(409);
+      await t.services.ledger.expireEndedAllocations(actingAs(world.admin), later);
+      expect(await ledgerOfWorld()).toMatchObject({ used: 150, expired: 550, remaining: 0 });
     });
   });
 });

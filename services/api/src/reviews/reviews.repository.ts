@@ -91,7 +91,11 @@ export const reviewsRepository = {
   },
 
   /** Proposals before the committee with everyone's progress and the caller's part. */
-  async queue(personId: string, q: CommitteeQueueQuery): Promise<CommitteeQueueItem[]> {
+  /**
+   * `ownGroupsToo` is for the office; committee members never see their own groups' proposals in
+   * the queue (its scores and progress are for the committee, and they are proposers there).
+   */
+  async queue(personId: string, q: CommitteeQueueQuery, ownGroupsToo: boolean): Promise<CommitteeQueueItem[]> {
     const rows = await ReviewAssignment.sequelize!.query<Record<string, unknown>>(
       `SELECT c.id AS "campaignId", c.title, c.state, g.name AS "groupName", i.name AS "institutionName",
               c.round_id AS "roundId", r.name AS "roundName", c.machine, c.requested_core_hours::float8 AS "requestedCoreHours",
@@ -110,6 +114,7 @@ export const reviewsRepository = {
          LEFT JOIN reviews rv ON rv.assignment_id = a.id
         WHERE c.state IN ('submitted', 'in-review')
           ${q.roundId ? 'AND c.round_id = :roundId' : ''}
+          ${ownGroupsToo ? '' : `AND g.pi_person_id <> :personId AND NOT EXISTS (SELECT 1 FROM group_memberships gm WHERE gm.group_id = c.group_id AND gm.person_id = :personId)`}
           ${q.scope === 'mine' ? `AND EXISTS (SELECT 1 FROM review_assignments m WHERE m.campaign_id = c.id AND m.reviewer_person_id = :personId AND m.state IN ('assigned', 'reviewed'))` : ''}
         GROUP BY c.id, g.name, i.name, r.name
         ORDER BY c.submitted_at ASC NULLS LAST, c.id`,

@@ -52,7 +52,8 @@ export function createReviewsService(db: Database, campaigns: CampaignsService, 
   }
 
   return {
-    queue: (ctx: RequestContext, q: CommitteeQueueQuery) => reviewsRepository.queue(ctx.principal!.personId, q).then((items) => ({ items })),
+    queue: (ctx: RequestContext, q: CommitteeQueueQuery) =>
+      reviewsRepository.queue(ctx.principal!.personId, q, actsAsAdmin(ctx.principal!)).then((items) => ({ items })),
 
     async forCampaign(ctx: RequestContext, campaignId: string): Promise<CampaignReviews> {
       const p = ctx.principal!;
@@ -63,8 +64,11 @@ export function createReviewsService(db: Database, campaigns: CampaignsService, 
       const decisionMessage = decided ? ([...(await campaigns.detail(ctx, c)).history].reverse().find((h) => h.toState === c.state)?.note ?? null) : null;
       const mine = assignments.find((a) => a.reviewerPersonId === p.personId) ?? null;
       const base = { campaignId: c.id, decisionMessage, myAssignmentId: mine?.id ?? null };
-      // Proposers (even those on the committee) see only what is meant for them, and only after the decision.
-      if (!isCommittee(ctx) || (proposer && !actsAsAdmin(p))) {
+      // Proposers (even those on the committee) see only what is meant for them, and only after the
+      // decision; so do members barred by a conflict of interest, declared or by institution. The
+      // office sees everything: it runs the review.
+      const barred = mine?.state === 'conflict' || (!!p.institutionId && p.institutionId === (await institutionOfGroup(c)));
+      if (!isCommittee(ctx) || ((proposer || barred) && !actsAsAdmin(p))) {
         const feedback = decided ? assignments.filter((a) => a.review).map((a) => ({ scores: a.review!.scores, toProposers: a.review!.toProposers })) : [];
         return { ...base, audience: 'proposers', assignments: [], summary: null, feedback, decisionMessage, eligibleReviewers: [], can: { assign: false, review: false, declareConflict: false, decide: false } };
       }

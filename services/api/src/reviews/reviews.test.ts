@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Assignment, Campaign, CampaignReviews, CommitteeQueue, PoolUsage } from '@localis/shared';
 import { createPerson, startTestApp, tokenFor, type TestApp } from '../../test/harness';
-import { makeCampaignWorld, type CampaignWorld } from '../../test/campaign-world';
+import { actingAs, makeCampaignWorld, type CampaignWorld } from '../../test/campaign-world';
 import { Campaign as CampaignModel, LedgerEntry, OutboxMessage } from '../db/models';
 
 let t: TestApp;
@@ -150,7 +150,43 @@ describe('committee review and decision', () => {
     });
   });
 
+  describe('who sees what', () => {
+    it('should keep a committee member out of their own group\'s proposals in the queue', async () => {
+      const member = await createPerson(t, { roles: ['committee', 'researcher'], institutionId: w.institutionId, label: 'committee-proposer' });
+      await t.services.groups.addMember(actingAs(w.pi), w.groupId, member.id);
+      const id = await w.submitted('Own group proposal');
+      await assign(id);
+      const queue = (await (await call(await tokenFor(t, member), 'GET', `/committee/queue?scope=all&roundId=${w.roundId}`)).json()) as CommitteeQueue;
+      expect(queue.items.map((i) => i.campaignId)).not.toContain(id);
+      const others = (await (await call(w.tokens.reviewer, 'GET', `/committee/queue?scope=all&roundId=${w.roundId}`)).json()) as CommitteeQueue;
+      expect(others.items.map((i) => i.campaignId)).toContain(id);
+    });
+
+    it('should show members barred by a conflict no reviews, declared or by institution', async () => {
+      const id = await w.submitted();
+      const a = await assign(id);
+      await call(w.tokens.reviewer, 'PUT', `/campaigns/${id}/assignments/${a.id}/review`, REVIEW);
+      const colleague = (await (await call(await tokenFor(t, w.sameInstitutionReviewer), 'GET', `/campaigns/${id}/reviews`)).json()) as CampaignReviews;
+      expect(colleague).toMatchObject({ audience: 'proposers', assignments: [], feedback: [] });
+      const other = await createPerson(t, { roles: ['committee'], label: 'declares' });
+      const otherToken = await tokenFor(t, other);
+      expect((await call(otherToken, 'POST', `/campaigns/${id}/conflict`, { reason: 'I examined the PI\'s student' })).status).toBe(200);
+      const declared = (await (await call(otherToken, 'GET', `/campaigns/${id}/reviews`)).json()) as CampaignReviews;
+      expect(JSON.stringify(declared)).not.toContain('CONFIDENTIAL-NOTE');
+    });
+  });
+
   describe('decision within the pool', () => {
+    it('should refuse to shrink a pool below what it has granted', async () => {
+      const world = await makeCampaignWorld(t, { label: 'shrink', poolCoreHours: 10_000 });
+      await world.granted(8000);
+      const shrink = (coreHours: number) => call(world.tokens.admin, 'PATCH', `/rounds/${world.roundId}`, { pools: [{ machine: world.machine, coreHours }] });
+      const res = await shrink(7999);
+      expect(res.status).toBe(409);
+      expect(await message(res)).toMatch(/8,000 core-hours granted already/);
+      expect((await shrink(8000)).status).toBe(200);
+    });
+
     it("should refuse a grant beyond what is left in the round's pool and write nothing", async () => {
       const world = await makeCampaignWorld(t, { label: 'pool', poolCoreHours: 50_000 });
       const first = await world.submitted();
@@ -186,6 +222,23 @@ describe('committee review and decision', () => {
       expect(((await declined.json()) as Campaign).state).toBe('declined');
       expect(await LedgerEntry.count({ where: { campaignId: id } })).toBe(0);
       expect((await call(w.tokens.admin, 'POST', `/campaigns/${id}/decision`, { outcome: 'decline', message: 'Once more with feeling.' })).status).toBe(409);
+    });
+
+    it("should deliver the decision mail through the worker to the mail fake's inbox", async () => {
+      const title = `Inbox check ${Date.now()}`;
+      const id = await w.submitted(title);
+      expect((await call(w.tokens.admin, 'POST', `/campaigns/${id}/decision`, { outcome: 'grant-part', coreHours: 500, message: 'Granted in part; see the reviews.' })).status).toBe(200);
+      const inbox = `http://${t.settings.SMTP_HOST}:${t.settings.MAIL_INBOX_PORT}/api/email`;
+      type Mail = { subject: string; to: { address: string }[]; text: string; html: string };
+      let mails: Mail[] = [];
+      for (let i = 0; i < 100 && mails.length < 2; i++) {
+        mails = ((await (await fetch(inbox)).json()) as Mail[]).filter((m) => m.subject.includes(title) && m.subject.startsWith('Partly granted'));
+        if (mails.length < 2) await new Promise((r) => setTimeout(r, 200));
+      }
+      expect(mails.flatMap((m) => m.to.map((to) => to.address)).sort()).toEqual([w.pi.email, w.researcher.email].sort());
+      expect(mails[0].text).toContain('Granted in part; see the reviews.');
+      expect(mails[0].text).toContain('500 core-hours');
+      expect(mails[0].html).toContain('<');
     });
 
     it('should mail the decision to the owner and the PI', async () => {

@@ -1,9 +1,10 @@
 import { UniqueConstraintError } from 'sequelize';
-import { DEFAULT_ALLOCATION_DAYS, errors, type RoundInput, type RoundListQuery, type RoundPatch } from '@localis/shared';
+import { DEFAULT_ALLOCATION_DAYS, errors, formatCoreHours, type RoundInput, type RoundListQuery, type RoundPatch } from '@localis/shared';
 import type { Database } from '../db';
 import type { RequestContext } from '../http/principal';
 import { auditService } from '../audit/audit.service';
 import { roundsRepository } from './rounds.repository';
+import { ledgerRepository } from '../ledger/ledger.repository';
 
 const duplicateName = (name: string) => errors.conflict(`A round named "${name}" exists already; choose another name.`);
 
@@ -51,6 +52,15 @@ export function createRoundsService(db: Database) {
           const dropped = inUse.filter((m) => !patch.pools!.some((p) => p.machine === m));
           if (dropped.length) {
             throw errors.conflict(`Campaigns of this round draw on ${dropped.join(', ')}; keep ${dropped.length > 1 ? 'those pools' : 'that pool'} or move the campaigns first.`);
+          }
+          // Lock the pools first, so a grant decided at the same moment is counted.
+          await ledgerRepository.lockPools(id, tx);
+          const granted = await ledgerRepository.grantedPerMachine(id, tx);
+          const tooSmall = patch.pools.filter((p) => p.coreHours * 1000 < (granted.get(p.machine) ?? 0));
+          if (tooSmall.length) {
+            throw errors.conflict(
+              tooSmall.map((p) => `${p.machine} has ${formatCoreHours(granted.get(p.machine)!)} core-hours granted already`).join('; ') + '; a pool cannot be smaller than what it has granted.',
+            );
           }
           await roundsRepository.replacePools(id, patch.pools, tx);
         }

@@ -1,3 +1,4 @@
+import { randomUUID } from 'node:crypto';
 import { Op, type Transaction, type WhereOptions } from 'sequelize';
 import { fromMilli, parseSort, type Page, type Run as RunDto, type RunInput, type RunListQuery } from '@localis/shared';
 import { LedgerEntry, Person, Run } from '../db/models';
@@ -63,6 +64,16 @@ export const runsRepository = {
       { transaction: tx },
     );
     return row.id;
+  },
+
+  /** Many runs in one statement (an import); ids are made here so the debits can name them. */
+  async createMany(runs: NewRun[], tx: Transaction): Promise<string[]> {
+    const rows = runs.map((run) => ({
+      id: randomUUID(), campaignId: run.campaignId, externalJobId: run.externalJobId, machine: run.machine, startedAt: new Date(run.startedAt), endedAt: new Date(run.endedAt),
+      cores: run.cores, coreHoursMilli: run.milli, codeName: run.codeName, codeVersion: run.codeVersion, parameters: run.parameters, source: run.source, recordedByPersonId: run.recordedByPersonId,
+    }));
+    await Run.bulkCreate(rows, { transaction: tx });
+    return rows.map((r) => r.id);
   },
 
   async find(id: string, tx?: Transaction): Promise<RunDto | null> {

@@ -46,7 +46,7 @@ export function createRunsService(db: Database, campaigns: CampaignsService, led
 
   async function insertRun(ctx: RequestContext, c: CampaignRecord, input: RunInput, source: Run['source'], tx: Transaction): Promise<string> {
     const milli = runMilli(input);
-    if (milli <= 0) throw errors.invalid('The run is too short to charge (under 0.001 core-hour).', [{ path: ['endedAt'], message: 'a run must last at least a few core-seconds' }]);
+    if (milli <= 0) throw errors.invalid('The run is too short to charge: cores x wall-clock is under 0.001 core-hour (3.6 core-seconds).', [{ path: ['endedAt'], message: 'a run must come to at least 3.6 core-seconds' }]);
     let id: string;
     try {
       id = await runsRepository.create({ ...input, campaignId: c.id, milli, source, recordedByPersonId: ctx.principal?.via === 'system' ? null : ctx.principal!.personId }, tx);
@@ -77,6 +77,7 @@ export function createRunsService(db: Database, campaigns: CampaignsService, led
       if (duplicate === 'in-file') errorsOfRow.push(`job ${jobId} appears already on line ${seen.get(jobId!)}`);
       if (duplicate === 'recorded') errorsOfRow.push(`job ${jobId} is recorded already on ${c.machine}`);
       const milli = r.input ? runMilli(r.input) : null;
+      if (milli !== null && milli <= 0) errorsOfRow.push('the run is shorter than 0.001 core-hour (3.6 core-seconds), too short to charge');
       if (milli !== null && !errorsOfRow.length) totalMilli += milli;
       return {
         line: r.line,
@@ -114,21 +115,13 @@ export function createRunsService(db: Database, campaigns: CampaignsService, led
     };
   }
 
-  /** Every reason an import cannot be committed, as error details (nothing is written). */
-  function problemsOf(result: RunImportResult & { fileError: string | null }, c: CampaignRecord) {
+  /** Every problem of the file and its rows, as error details (the ledger is judged apart). */
+  function problemsOf(result: RunImportResult & { fileError: string | null }) {
     const details: { path: (string | number)[]; message: string }[] = [];
     if (result.fileError) details.push({ path: ['csv'], message: result.fileError });
     for (const col of result.unknownColumns) details.push({ path: ['mapping', col], message: `column "${col}" is not known: map it to a run field or to "ignore"` });
     for (const f of result.missingFields) details.push({ path: ['mapping'], message: `no column gives ${f}` });
     for (const r of result.rows) for (const m of r.errors) details.push({ path: ['csv', r.line], message: `line ${r.line}: ${m}` });
-    if (!details.length && !result.ledger.allowed) {
-      details.push({
-        path: ['csv'],
-        message: c.state === 'granted' || c.state === 'partly-granted'
-          ? `the runs need ${formatCoreHours(toMilli(result.summary.coreHours))} core-hours; "${c.title}" has ${formatCoreHours(toMilli(result.ledger.remaining))} left`
-          : `"${c.title}" is not granted; runs are charged only to granted campaigns`,
-      });
-    }
     return details;
   }
 
@@ -162,11 +155,26 @@ export function createRunsService(db: Database, campaigns: CampaignsService, led
         await requireRecorder(ctx, c, tx);
         // Checked again under the lock: what was previewed may have changed since.
         const result = await preview(c, request, tx);
-        const problems = problemsOf(result, c);
+        const problems = problemsOf(result);
         if (problems.length) throw errors.invalid(`The import was not recorded: ${problems.length} problem${problems.length > 1 ? 's' : ''} to fix first. Nothing was written.`, problems.slice(0, 200));
-        const parsed = parseRunImport(request, c.machine);
-        const runIds: string[] = [];
-        for (const row of parsed.rows) runIds.push(await insertRun(ctx, c, row.input!, 'import', tx));
+        // Rows that are all fine but do not fit: the same 409 as a single run that does not fit.
+        if (!result.ledger.allowed) {
+          throw errors.conflict(
+            c.state === 'granted' || c.state === 'partly-granted'
+              ? `The import was not recorded: the runs need ${formatCoreHours(toMilli(result.summary.coreHours))} core-hours and "${c.title}" has ${formatCoreHours(toMilli(result.ledger.remaining))} left. Nothing was written.`
+              : `The import was not recorded: "${c.title}" is not granted; runs are charged only to granted campaigns.`,
+          );
+        }
+        const inputs = parseRunImport(request, c.machine).rows.map((row) => row.input!);
+        const recordedBy = ctx.principal?.via === 'system' ? null : ctx.principal!.personId;
+        let runIds: string[];
+        try {
+          runIds = await runsRepository.createMany(inputs.map((input) => ({ ...input, campaignId: c.id, milli: runMilli(input), source: 'import', recordedByPersonId: recordedBy })), tx);
+        } catch (e) {
+          if (e instanceof UniqueConstraintError) throw errors.conflict('One of the jobs was recorded by someone else meanwhile; preview the file again. Nothing was written.');
+          throw e;
+        }
+        await ledger.debitManyIn(ctx, c, runIds.map((id, i) => ({ id, milli: runMilli(inputs[i]) })), tx);
         await auditService.record(ctx, 'run.imported', { type: 'campaign', id: c.id }, { runs: runIds.length, coreHours: result.summary.coreHours }, tx);
         const { fileError: _f, ...rest } = result;
         return { ...rest, dryRun: false, committed: true, runIds };

@@ -99,7 +99,8 @@ describe('scheduler CSV import', () => {
     expect(preview.ledger).toMatchObject({ remaining: 100, after: 12, allowed: true });
     const tooBig = ['JobID,Start,Elapsed,NCPUS', `${jobId()},2027-02-01T08:00:00Z,02:00:00,64`].join('\n');
     const refused = await call(w.tokens.pi, 'POST', `/campaigns/${small}/runs/import`, { csv: tooBig, defaults: { codeName: 'tmm-bar', codeVersion: 'v1' } });
-    expect(refused.status).toBe(422);
+    expect(refused.status).toBe(409);
+    expect(((await refused.json()) as { error: { message: string } }).error.message).toMatch(/Nothing was written/);
   });
 
   it('should import the demo scheduler export shipped with the scenario', async () => {

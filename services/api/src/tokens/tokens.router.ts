@@ -13,6 +13,8 @@ export function tokensRoutes(service: TokensService) {
     {
       method: 'post', path: '/me/tokens', tag: 'profile', summary: 'Create a personal API token; the secret is returned once',
       access: access.write(), request: { body: ApiTokenInput },
+      // The secret is shown once: it is never stored for an Idempotency-Key replay.
+      idempotency: false,
       responses: { 201: { description: 'Created; keep the secret now', schema: CreatedApiToken } }, handler: c.create,
     },
     {

@@ -56,8 +56,9 @@ describe('runFromFlags', () => {
     expect(await problemsOf({ ...FLAGS, end: '2027-02-01T07:59:59Z' })).toEqual(['endedAt: a run must end after it starts (--end "2027-02-01T07:59:59Z")']);
   });
 
-  it('should refuse core-hours of 0', async () => {
-    expect(await problemsOf({ ...FLAGS, coreHours: '0' })).toEqual(['coreHours: coreHours must be positive (--core-hours "0")']);
+  it('should refuse core-hours of 0 and finer than the ledger counts (0.001)', async () => {
+    expect(await problemsOf({ ...FLAGS, coreHours: '0' })).toEqual(['coreHours: coreHours must be at least 0.001 (3.6 core-seconds) (--core-hours "0")']);
+    expect(await problemsOf({ ...FLAGS, coreHours: '1.0005' })).toEqual(['coreHours: coreHours have at most three decimals (--core-hours "1.0005")']);
   });
 
   it('should report list items that are not numbers and out-of-range ones at their place in the option', async () => {

@@ -21,9 +21,14 @@ export const dailySweepJob: JobDefinition<typeof DailySweepData> = {
   schema: DailySweepData,
   async process(_data, { settings, db, logger }) {
     const now = new Date();
-    const noticed = await sendRoundClosingNotices(db, now, settings.PUBLIC_URL);
-    const expired = await expireEndedAllocations(db, now);
+    // Independent chores: a failure in one must not hold back the other. The job fails (and is
+    // retried) when either did, after both have had their turn.
+    const [notices, expiry] = await Promise.allSettled([sendRoundClosingNotices(db, now, settings.PUBLIC_URL), expireEndedAllocations(db, now)]);
+    const noticed = notices.status === 'fulfilled' ? notices.value : [];
+    const expired = expiry.status === 'fulfilled' ? expiry.value : 0;
     logger.info({ roundClosingNotices: noticed.length, expiredAllocations: expired }, 'daily sweep done');
+    const failed = [notices, expiry].filter((r): r is PromiseRejectedResult => r.status === 'rejected');
+    if (failed.length) throw new AggregateError(failed.map((r) => r.reason), `daily sweep: ${failed.length} chore(s) failed`);
     return { roundClosingNotices: noticed, expiredAllocations: expired };
   },
 };

@@ -1,11 +1,14 @@
-import { createHash } from 'node:crypto';
+import { createHash, randomUUID } from 'node:crypto';
 import nodemailer from 'nodemailer';
 import { MailMessage, QUEUES } from '@localis/shared';
 import type { JobDefinition } from './job';
 
 const SENT_TTL_SECONDS = 30 * 86_400;
-/** Longer than any send takes; a crashed worker's lease runs out and a retry takes over. */
+/** Longer than any send may take (the SMTP timeouts below); a crashed worker's lease runs out. */
 const SENDING_LEASE_MS = 60_000;
+const SMTP_TIMEOUT_MS = 20_000;
+/** Delete the lease only if it is still ours (it may have run out and been taken by a retry). */
+const RELEASE_IF_OURS = "if redis.call('get', KEYS[1]) == ARGV[1] then return redis.call('del', KEYS[1]) else return 0 end";
 
 /**
  * Send one e-mail. A retried job with the same dedupeKey is not sent again: the key is marked
@@ -21,12 +24,14 @@ export const mailJob: JobDefinition<typeof MailMessage> = {
     const sentKey = `localis:mail:sent:${keyHash}`;
     const leaseKey = `localis:mail:sending:${keyHash}`;
     if (await redis.exists(sentKey)) return { skipped: 'already sent' };
-    if ((await redis.set(leaseKey, '1', 'PX', SENDING_LEASE_MS, 'NX')) !== 'OK') {
+    const owner = randomUUID();
+    const release = () => redis.eval(RELEASE_IF_OURS, 1, leaseKey, owner);
+    if ((await redis.set(leaseKey, owner, 'PX', SENDING_LEASE_MS, 'NX')) !== 'OK') {
       throw new Error('another job is sending the same message; this one retries after it');
     }
     // The other job may have finished between the check and the lease.
     if (await redis.exists(sentKey)) {
-      await redis.del(leaseKey);
+      await release();
       return { skipped: 'already sent' };
     }
     const transport = nodemailer.createTransport({
@@ -34,6 +39,10 @@ export const mailJob: JobDefinition<typeof MailMessage> = {
       port: settings.SMTP_PORT,
       secure: false,
       ignoreTLS: settings.SMTP_HOST === '127.0.0.1',
+      // Well inside the lease, so a hung server never lets a second job send the same mail.
+      connectionTimeout: SMTP_TIMEOUT_MS,
+      greetingTimeout: SMTP_TIMEOUT_MS,
+      socketTimeout: SMTP_TIMEOUT_MS,
     });
     try {
       const info = await transport.sendMail({
@@ -50,7 +59,7 @@ export const mailJob: JobDefinition<typeof MailMessage> = {
       return { messageId: info.messageId };
     } finally {
       transport.close();
-      await redis.del(leaseKey);
+      await release();
     }
   },
 };
