@@ -1,12 +1,9 @@
 import type { Notification } from '@localis/shared';
-import { flushPromises, mount } from '@vue/test-utils';
-import { createPinia, setActivePinia } from 'pinia';
-import PrimeVue from 'primevue/config';
-import ToastService from 'primevue/toastservice';
-import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
-import { defineComponent } from 'vue';
-import { createMemoryHistory, createRouter } from 'vue-router';
+import { flushPromises } from '@vue/test-utils';
+import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { useSessionStore } from '../stores/session.store';
+import { jsonResponse as json, notServed, stubFetch } from '../test/fetch-stub';
+import { memoryRouter, mountInApp, resetTestPage } from '../test/mount-in-app';
 import NotificationBell from './notification-bell.vue';
 
 const note = (id: string, link: string | null): Notification => ({
@@ -21,7 +18,6 @@ const note = (id: string, link: string | null): Notification => ({
 
 let unread: Notification[];
 let requests: { method: string; url: string; body: unknown }[];
-const json = (status: number, body: unknown) => new Response(JSON.stringify(body), { status, headers: { 'content-type': 'application/json' } });
 
 function serve(url: string, init?: RequestInit): Response {
   const method = init?.method ?? 'GET';
@@ -32,30 +28,16 @@ function serve(url: string, init?: RequestInit): Response {
     unread = body?.all ? [] : unread.filter((n) => !body?.ids?.includes(n.id));
     return json(200, { unread: unread.length });
   }
-  return json(404, { error: { code: 'not_found', message: `no ${url}` } });
+  return notServed(url);
 }
 
 async function mountBell() {
-  const Page = defineComponent({ template: '<p>page</p>' });
-  const router = createRouter({
-    history: createMemoryHistory(),
-    routes: [
-      { path: '/', name: 'home', component: Page },
-      { path: '/campaigns/:id/ledger', name: 'campaign-ledger', component: Page },
-    ],
-  });
-  await router.push('/');
-  await router.isReady();
-  const pinia = createPinia();
-  setActivePinia(pinia);
-  const session = useSessionStore();
-  session.signedIn = true;
-  const wrapper = mount(NotificationBell, {
-    global: { plugins: [pinia, router, [PrimeVue, { theme: 'none' }], ToastService], stubs: { teleport: true } },
-    attachTo: document.body,
-  });
-  await flushPromises();
-  return { wrapper, router, session };
+  const router = memoryRouter([
+    { path: '/', name: 'home' },
+    { path: '/campaigns/:id/ledger', name: 'campaign-ledger' },
+  ]);
+  const wrapper = await mountInApp(NotificationBell, { router, beforeMount: () => (useSessionStore().signedIn = true) });
+  return { wrapper, router, session: useSessionStore() };
 }
 
 const polls = () => requests.filter((r) => r.url.startsWith('/api/v1/me/notifications?')).length;
@@ -64,13 +46,10 @@ describe('NotificationBell', { timeout: 20_000 }, () => {
   beforeEach(() => {
     requests = [];
     unread = [note('7', '/campaigns/3a4b/ledger'), note('8', 'https://elsewhere.example/')];
-    vi.stubGlobal('fetch', vi.fn((url: string, init?: RequestInit) => Promise.resolve(serve(url, init))));
+    stubFetch(serve);
   });
 
-  afterEach(() => {
-    vi.unstubAllGlobals();
-    document.body.innerHTML = '';
-  });
+  afterEach(resetTestPage);
 
   describe('the count', () => {
     it('should ask for unread notifications at once and show how many there are', async () => {

@@ -1,44 +1,18 @@
 import type { Assignment, CampaignReviews } from '@localis/shared';
 import { createPinia, setActivePinia } from 'pinia';
 import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
+import { jsonResponse as json } from '../test/fetch-stub';
+import { assignmentFixture, campaignReviewsFixture } from '../views/campaigns/test/review-fixture';
 import { useReviewsStore } from './reviews.store';
 
-const CAMPAIGN_ID = '3a4b5c6d-7e8f-4a0b-9c1d-2e3f4a5b6c7d';
+const A = assignmentFixture();
+const B = assignmentFixture({ id: '8d7c6b5a-4938-4276-8a5f-4e3d2c1b0a9f', reviewerName: 'Tomas Vell' });
+const CAMPAIGN_ID = A.campaignId;
 const ROUND_ID = '9a8b7c6d-5e4f-4a3b-8c2d-1e0f9a8b7c6d';
 
-const json = (status: number, body: unknown) => new Response(body === undefined ? null : JSON.stringify(body), { status, headers: { 'content-type': 'application/json' } });
-
-function assignment(id: string, overrides: Partial<Assignment> = {}): Assignment {
-  return {
-    id,
-    campaignId: CAMPAIGN_ID,
-    reviewerPersonId: '1f2e3d4c-5b6a-4798-8a7b-6c5d4e3f2a1b',
-    reviewerName: 'Odile Brandt',
-    reviewerInstitutionName: 'Kestrel University',
-    state: 'assigned',
-    conflictReason: null,
-    assignedAt: '2027-01-20T09:00:00.000Z',
-    review: null,
-    ...overrides,
-  };
-}
-
 function reviews(assignments: Assignment[]): CampaignReviews {
-  return {
-    campaignId: CAMPAIGN_ID,
-    audience: 'committee',
-    assignments,
-    summary: null,
-    feedback: [],
-    decisionMessage: null,
-    eligibleReviewers: [],
-    can: { assign: true, review: false, declareConflict: false, decide: true },
-    myAssignmentId: null,
-  };
+  return campaignReviewsFixture({ assignments, can: { assign: true, review: false, declareConflict: false, decide: true } });
 }
-
-const A = assignment('7c6b5a49-3827-4165-9f4e-3d2c1b0a9f8e');
-const B = assignment('8d7c6b5a-4938-4276-8a5f-4e3d2c1b0a9f', { reviewerName: 'Tomas Vell' });
 
 describe('useReviewsStore', () => {
   let fetchMock: ReturnType<typeof vi.fn>;
@@ -68,7 +42,7 @@ describe('useReviewsStore', () => {
 
   describe('writes', () => {
     it('should put the saved review in place and read the summary again when a review is submitted', async () => {
-      const reviewed = assignment(A.id, { state: 'reviewed' });
+      const reviewed = { ...A, state: 'reviewed' as const };
       let reads = 0;
       serve({
         [`GET /api/v1/campaigns/${CAMPAIGN_ID}/reviews`]: () => (reads++ === 0 ? json(200, reviews([A, B])) : json(200, { ...reviews([reviewed, B]), summary: { reviews: 1, meanScores: { merit: 4, feasibility: 4, costJustification: 4 }, meanRecommendedCoreHours: 10 } })),

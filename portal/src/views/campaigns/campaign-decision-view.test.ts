@@ -1,18 +1,13 @@
 import type { Campaign, CampaignReviews, PoolUsage } from '@localis/shared';
-import { flushPromises, mount } from '@vue/test-utils';
-import { createPinia, setActivePinia } from 'pinia';
-import ConfirmationService from 'primevue/confirmationservice';
-import ConfirmDialog from 'primevue/confirmdialog';
-import PrimeVue from 'primevue/config';
-import Toast from 'primevue/toast';
-import ToastService from 'primevue/toastservice';
-import { afterEach, describe, expect, it, vi } from 'vitest';
-import { defineComponent, h } from 'vue';
-import { RouterView } from 'vue-router';
+import { flushPromises } from '@vue/test-utils';
+import { afterEach, describe, expect, it } from 'vitest';
+import { jsonResponse as json, notServed, stubFetch } from '../../test/fetch-stub';
+import { mountPage, resetTestPage } from '../../test/mount-in-app';
 import CampaignDecisionView from './campaign-decision-view.vue';
-import { campaignFixture, testRouter } from './test/campaign-fixture';
+import { CAN_NOTHING, campaignFixture, testRouter } from './test/campaign-fixture';
+import { campaignReviewsFixture } from './test/review-fixture';
 
-const DECIDABLE = { edit: false, submit: false, withdraw: true, startReview: false, decide: true, recordRuns: false, transfer: false };
+const DECIDABLE = { ...CAN_NOTHING, withdraw: true, decide: true };
 const POOL: PoolUsage = {
   roundId: '9a8b7c6d-5e4f-4a3b-8c2d-1e0f9a8b7c6d',
   machine: 'cluster-a',
@@ -24,23 +19,13 @@ const POOL: PoolUsage = {
   groups: [],
 };
 
-const json = (status: number, body: unknown) => new Response(JSON.stringify(body), { status, headers: { 'content-type': 'application/json' } });
-
 let campaign: Campaign;
-let fetchMock: ReturnType<typeof vi.fn>;
 
 function reviews(): CampaignReviews {
-  return {
-    campaignId: campaign.id,
-    audience: 'committee',
-    assignments: [],
+  return campaignReviewsFixture({
     summary: { reviews: 2, meanScores: { merit: 4.5, feasibility: 3.5, costJustification: 4 }, meanRecommendedCoreHours: 1_000_000 },
-    feedback: [],
-    decisionMessage: null,
-    eligibleReviewers: [],
     can: { assign: true, review: false, declareConflict: false, decide: true },
-    myAssignmentId: null,
-  };
+  });
 }
 
 function serve(url: string, init?: RequestInit): Response {
@@ -49,32 +34,18 @@ function serve(url: string, init?: RequestInit): Response {
   if (url === `${base}/reviews`) return json(200, reviews());
   if (url === `${base}/pool`) return json(200, POOL);
   if (url === base) return json(200, campaign);
-  return json(404, { error: { code: 'not_found', message: `no ${url}` } });
+  return notServed(url);
 }
 
 async function mountView() {
-  fetchMock = vi.fn((url: string, init?: RequestInit) => Promise.resolve(serve(url, init)));
-  vi.stubGlobal('fetch', fetchMock);
-  const router = testRouter();
-  router.addRoute({ path: '/campaigns/:id/decision', name: 'campaign-decision', component: CampaignDecisionView, props: true });
-  await router.push(`/campaigns/${campaign.id}/decision`);
-  await router.isReady();
-  const pinia = createPinia();
-  setActivePinia(pinia);
-  const Host = defineComponent({ render: () => [h(RouterView), h(ConfirmDialog), h(Toast)] });
-  const wrapper = mount(Host, {
-    global: { plugins: [pinia, router, [PrimeVue, { theme: 'none' }], ToastService, ConfirmationService], stubs: { teleport: true } },
-    attachTo: document.body,
-  });
-  await flushPromises();
+  stubFetch(serve);
+  const router = testRouter({ path: '/campaigns/:id/decision', name: 'campaign-decision', component: CampaignDecisionView, props: true });
+  const wrapper = await mountPage(router, `/campaigns/${campaign.id}/decision`);
   return { wrapper, router };
 }
 
 describe('CampaignDecisionView', { timeout: 20_000 }, () => {
-  afterEach(() => {
-    vi.unstubAllGlobals();
-    document.body.innerHTML = '';
-  });
+  afterEach(resetTestPage);
 
   it('should show the request, the reviewers means and the pool before any outcome is chosen', async () => {
     campaign = campaignFixture({ state: 'in-review', grantedCoreHours: null, can: DECIDABLE });

@@ -1,15 +1,12 @@
 import { CampaignSpec, estimateCampaign, type Campaign } from '@localis/shared';
-import { flushPromises, mount } from '@vue/test-utils';
-import { createPinia, setActivePinia } from 'pinia';
-import ConfirmationService from 'primevue/confirmationservice';
-import PrimeVue from 'primevue/config';
+import { flushPromises } from '@vue/test-utils';
 import Select from 'primevue/select';
-import ToastService from 'primevue/toastservice';
-import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
-import { defineComponent } from 'vue';
-import { createMemoryHistory, createRouter } from 'vue-router';
+import { afterEach, beforeEach, describe, expect, it } from 'vitest';
+import { jsonResponse as json, notServed, stubFetch } from '../../test/fetch-stub';
+import { mountPage, resetTestPage } from '../../test/mount-in-app';
 import { ESTIMATE_DELAY_MS } from './composables/use-live-estimate';
 import CampaignFormView from './campaign-form-view.vue';
+import { testRouter } from './test/campaign-fixture';
 
 const GROUP = { id: '5d0c2b3e-8f4a-4c1d-9e2b-7a6f5e4d3c21', name: 'Disorder and Topology', institutionName: 'Kestrel University' };
 const ROUND = {
@@ -69,10 +66,9 @@ function draft(overrides: Partial<Campaign> = {}): Campaign {
   };
 }
 
-const json = (status: number, body: unknown) => new Response(JSON.stringify(body), { status, headers: { 'content-type': 'application/json' } });
 const page = (items: unknown[]) => ({ items, total: items.length, limit: 200, offset: 0 });
 
-let fetchMock: ReturnType<typeof vi.fn>;
+let fetchMock: ReturnType<typeof stubFetch>;
 /** What POST /campaigns answers in a test, given what was sent. */
 let createAnswer: (body: Record<string, unknown>) => Response;
 /** What GET /campaigns/:id answers, and PATCH echoes onto. */
@@ -84,30 +80,15 @@ function serve(url: string, init?: RequestInit): Response {
   if (url === '/api/v1/campaigns' && init?.method === 'POST') return createAnswer(JSON.parse(String(init.body)));
   if (url === `/api/v1/campaigns/${SAVED_ID}` && init?.method === 'PATCH') return json(200, { ...stored, ...JSON.parse(String(init.body)) });
   if (url === `/api/v1/campaigns/${SAVED_ID}`) return json(200, stored);
-  return json(404, { error: { code: 'not_found', message: `no ${url}` } });
+  return notServed(url);
 }
 
 async function mountForm(path = '/campaigns/new') {
-  const Blank = defineComponent({ template: '<p>page</p>' });
-  const router = createRouter({
-    history: createMemoryHistory(),
-    routes: [
-      { path: '/campaigns', name: 'campaigns', component: Blank },
-      { path: '/campaigns/new', name: 'campaign-new', component: CampaignFormView },
-      { path: '/campaigns/:id/edit', name: 'campaign-edit', component: CampaignFormView, props: true },
-      { path: '/campaigns/:id', name: 'campaign-detail', component: Blank },
-    ],
-  });
-  await router.push(path);
-  await router.isReady();
-  const pinia = createPinia();
-  setActivePinia(pinia);
-  const Host = defineComponent({ template: '<RouterView />' });
-  const host = mount(Host, {
-    global: { plugins: [pinia, router, [PrimeVue, { theme: 'none' }], ToastService, ConfirmationService], stubs: { teleport: true } },
-    attachTo: document.body,
-  });
-  await flushPromises();
+  const router = testRouter(
+    { path: '/campaigns/new', name: 'campaign-new', component: CampaignFormView },
+    { path: '/campaigns/:id/edit', name: 'campaign-edit', component: CampaignFormView, props: true },
+  );
+  const host = await mountPage(router, path);
   return { wrapper: host.getComponent(CampaignFormView), router };
 }
 
@@ -117,16 +98,12 @@ const field = (wrapper: Awaited<ReturnType<typeof mountForm>>['wrapper'], id: st
 // Each test mounts the whole form (PrimeVue, router, stores): slower than a unit test, and slower still on a busy machine.
 describe('CampaignFormView', { timeout: 20_000 }, () => {
   beforeEach(() => {
-    fetchMock = vi.fn((url: string, init?: RequestInit) => Promise.resolve(serve(url, init)));
-    vi.stubGlobal('fetch', fetchMock);
+    fetchMock = stubFetch(serve);
     createAnswer = () => json(500, {});
     stored = draft();
   });
 
-  afterEach(() => {
-    vi.unstubAllGlobals();
-    document.body.innerHTML = '';
-  });
+  afterEach(resetTestPage);
 
   describe('the live estimate', () => {
     it('should show the estimate and raise the critical-disorder notice as the grid moves away from W_c and back', async () => {
@@ -213,7 +190,7 @@ describe('CampaignFormView', { timeout: 20_000 }, () => {
       await flushPromises();
 
       const post = fetchMock.mock.calls.find(([, init]) => init?.method === 'POST')!;
-      const body = JSON.parse(post[1].body as string);
+      const body = JSON.parse(post[1]?.body as string);
       expect(body).toMatchObject({ groupId: GROUP.id, roundId: ROUND.id, machine: 'cluster-a' });
       expect(body.spec).toMatchObject({ sizes: [6, 8, 12, 16, 24], disorder: { from: 15, to: 18, step: 0.25 }, energies: [0], targetPrecision: 0.005 });
       expect(router.currentRoute.value.name).toBe('campaign-detail');
@@ -235,7 +212,7 @@ describe('CampaignFormView', { timeout: 20_000 }, () => {
       await flushPromises();
 
       const patch = fetchMock.mock.calls.find(([, init]) => init?.method === 'PATCH')!;
-      const body = JSON.parse(patch[1].body as string);
+      const body = JSON.parse(patch[1]?.body as string);
       expect(body).not.toHaveProperty('groupId');
       expect(body.spec).toMatchObject({ sizes: [8, 12, 16, 24], disorder: { values: [15, 16, 16.5, 17, 18] } });
       expect(router.currentRoute.value.name).toBe('campaign-detail');

@@ -1,40 +1,16 @@
-import type { RunImportResult } from '@localis/shared';
-import { flushPromises, mount } from '@vue/test-utils';
-import { createPinia, setActivePinia } from 'pinia';
-import ConfirmationService from 'primevue/confirmationservice';
-import PrimeVue from 'primevue/config';
-import ToastService from 'primevue/toastservice';
-import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
-import { defineComponent } from 'vue';
-import { createMemoryHistory, createRouter } from 'vue-router';
+import { flushPromises } from '@vue/test-utils';
+import { afterEach, beforeEach, describe, expect, it } from 'vitest';
+import { jsonResponse as json, notServed, stubFetch } from '../../test/fetch-stub';
+import { mountPage, resetTestPage } from '../../test/mount-in-app';
 import CampaignImportView from './campaign-import-view.vue';
 import ImportMapping from './components/import/import-mapping.vue';
-import { campaignFixture } from './test/campaign-fixture';
+import { CAN_NOTHING, campaignFixture, testRouter } from './test/campaign-fixture';
+import { runImportFixture as preview } from './test/run-import-fixture';
 
-const campaign = campaignFixture({
-  state: 'granted',
-  can: { edit: false, submit: false, withdraw: false, startReview: false, decide: false, recordRuns: true, transfer: false },
-});
+const campaign = campaignFixture({ state: 'granted', can: { ...CAN_NOTHING, recordRuns: true } });
 const BASE = `/api/v1/campaigns/${campaign.id}`;
 const CSV = 'JobID,Start,End,AllocCPUS,Partition\n981234,2027-02-01T08:00:00,2027-02-01T20:00:00,64,batch\n';
 
-function preview(over: Partial<RunImportResult> = {}): RunImportResult {
-  return {
-    dryRun: true,
-    committed: false,
-    columns: ['JobID', 'Start', 'End', 'AllocCPUS', 'Partition'],
-    mapping: { JobID: 'externalJobId', Start: 'startedAt', End: 'endedAt', AllocCPUS: 'cores', Partition: null },
-    unknownColumns: ['Partition'],
-    missingFields: [],
-    rows: [{ line: 2, externalJobId: '981234', startedAt: '2027-02-01T08:00:00.000Z', endedAt: '2027-02-01T20:00:00.000Z', cores: 64, coreHours: 768, errors: [], duplicate: null }],
-    summary: { rows: 1, valid: 1, withErrors: 0, duplicates: 0, coreHours: 768 },
-    ledger: { remaining: 10_000, after: 9_232, allowed: true, overdraft: false },
-    runIds: [],
-    ...over,
-  };
-}
-
-const json = (status: number, body: unknown) => new Response(JSON.stringify(body), { status, headers: { 'content-type': 'application/json' } });
 /** The requests sent to the import endpoint: the query string and the body. */
 let imports: { url: string; body: Record<string, unknown> }[];
 
@@ -49,31 +25,12 @@ function serve(url: string, init?: RequestInit): Response {
     if (url.includes('dryRun=true')) return json(200, result);
     return json(201, { ...result, dryRun: false, committed: true, runIds: ['5f0c1a2b-3c4d-4e5f-8a9b-0c1d2e3f4a5b'] });
   }
-  return json(404, { error: { code: 'not_found', message: `no ${url}` } });
+  return notServed(url);
 }
 
 async function mountWizard() {
-  const Blank = defineComponent({ template: '<p>page</p>' });
-  const router = createRouter({
-    history: createMemoryHistory(),
-    routes: [
-      { path: '/campaigns', name: 'campaigns', component: Blank },
-      { path: '/campaigns/:id', name: 'campaign-detail', component: Blank },
-      { path: '/campaigns/:id/ledger', name: 'campaign-ledger', component: Blank },
-      { path: '/campaigns/:id/runs', name: 'campaign-runs', component: Blank },
-      { path: '/campaigns/:id/runs/import', name: 'campaign-runs-import', component: CampaignImportView, props: true },
-    ],
-  });
-  await router.push(`/campaigns/${campaign.id}/runs/import`);
-  await router.isReady();
-  const pinia = createPinia();
-  setActivePinia(pinia);
-  const Host = defineComponent({ template: '<RouterView />' });
-  const host = mount(Host, {
-    global: { plugins: [pinia, router, [PrimeVue, { theme: 'none' }], ToastService, ConfirmationService], stubs: { teleport: true } },
-    attachTo: document.body,
-  });
-  await flushPromises();
+  const router = testRouter({ path: '/campaigns/:id/runs/import', name: 'campaign-runs-import', component: CampaignImportView, props: true });
+  const host = await mountPage(router, `/campaigns/${campaign.id}/runs/import`);
   return host.getComponent(CampaignImportView);
 }
 
@@ -82,13 +39,10 @@ const wait = (ms: number) => new Promise((resolve) => setTimeout(resolve, ms));
 describe('CampaignImportView', { timeout: 20_000 }, () => {
   beforeEach(() => {
     imports = [];
-    vi.stubGlobal('fetch', vi.fn((url: string, init?: RequestInit) => Promise.resolve(serve(url, init))));
+    stubFetch(serve);
   });
 
-  afterEach(() => {
-    vi.unstubAllGlobals();
-    document.body.innerHTML = '';
-  });
+  afterEach(resetTestPage);
 
   describe('the steps', () => {
     it('should preview, ask for the unknown column, preview again and record the runs only when nothing blocks them', async () => {

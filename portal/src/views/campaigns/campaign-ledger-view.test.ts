@@ -1,45 +1,22 @@
 import type { Ledger, LedgerEntry } from '@localis/shared';
-import { flushPromises, mount } from '@vue/test-utils';
-import { createPinia, setActivePinia } from 'pinia';
-import ConfirmationService from 'primevue/confirmationservice';
-import PrimeVue from 'primevue/config';
-import ToastService from 'primevue/toastservice';
+import { flushPromises } from '@vue/test-utils';
 import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
-import { defineComponent } from 'vue';
-import { createMemoryHistory, createRouter } from 'vue-router';
 import { useSessionStore } from '../../stores/session.store';
+import { jsonResponse as json, notServed, stubFetch } from '../../test/fetch-stub';
+import { mountPage, resetTestPage } from '../../test/mount-in-app';
 import CampaignLedgerView from './campaign-ledger-view.vue';
-import { campaignFixture } from './test/campaign-fixture';
+import { CAN_NOTHING, campaignFixture, testRouter } from './test/campaign-fixture';
+import { ledgerEntryFixture } from './test/ledger-fixture';
 
-const campaign = campaignFixture({
-  state: 'granted',
-  can: { edit: false, submit: false, withdraw: false, startReview: false, decide: false, recordRuns: true, transfer: true },
-});
+const campaign = campaignFixture({ state: 'granted', can: { ...CAN_NOTHING, recordRuns: true, transfer: true } });
 const BASE = `/api/v1/campaigns/${campaign.id}`;
 
 function entry(id: string, kind: LedgerEntry['kind'], coreHours: number, balanceAfter: number, createdAt: string, over: Partial<LedgerEntry> = {}): LedgerEntry {
-  return {
-    id,
-    campaignId: campaign.id,
-    kind,
-    coreHours,
-    balanceAfter,
-    runId: null,
-    externalJobId: null,
-    counterpartCampaignId: null,
-    counterpartTitle: null,
-    reason: null,
-    overdraft: false,
-    actorName: 'Orla Fenn',
-    createdAt,
-    ...over,
-  };
+  return ledgerEntryFixture(kind, coreHours, balanceAfter, createdAt, { id, actorName: 'Orla Fenn', ...over });
 }
 
 let ledger: Ledger;
 let requests: { method: string; url: string; body: unknown }[];
-
-const json = (status: number, body: unknown) => new Response(JSON.stringify(body), { status, headers: { 'content-type': 'application/json' } });
 
 function serve(url: string, init?: RequestInit): Response {
   const method = init?.method ?? 'GET';
@@ -52,31 +29,14 @@ function serve(url: string, init?: RequestInit): Response {
     ledger = { ...ledger, granted: ledger.granted + coreHours, remaining: ledger.remaining + coreHours, entries: [...ledger.entries, added] };
     return json(201, added);
   }
-  return json(404, { error: { code: 'not_found', message: `no ${url}` } });
+  return notServed(url);
 }
 
 async function mountLedger(roles: string[]) {
-  const Blank = defineComponent({ template: '<p>page</p>' });
-  const router = createRouter({
-    history: createMemoryHistory(),
-    routes: [
-      { path: '/campaigns', name: 'campaigns', component: Blank },
-      { path: '/campaigns/:id', name: 'campaign-detail', component: Blank },
-      { path: '/campaigns/:id/ledger', name: 'campaign-ledger', component: CampaignLedgerView, props: true },
-      { path: '/campaigns/:id/runs', name: 'campaign-runs', component: Blank },
-    ],
+  const router = testRouter({ path: '/campaigns/:id/ledger', name: 'campaign-ledger', component: CampaignLedgerView, props: true });
+  const host = await mountPage(router, `/campaigns/${campaign.id}/ledger`, () => {
+    useSessionStore().person = { id: '0a1b2c3d-4e5f-4a6b-8c7d-9e0f1a2b3c4d', name: 'Orla Fenn', email: 'orla@example.org', institutionId: null, roles: roles as never };
   });
-  await router.push(`/campaigns/${campaign.id}/ledger`);
-  await router.isReady();
-  const pinia = createPinia();
-  setActivePinia(pinia);
-  useSessionStore().person = { id: '0a1b2c3d-4e5f-4a6b-8c7d-9e0f1a2b3c4d', name: 'Orla Fenn', email: 'orla@example.org', institutionId: null, roles: roles as never };
-  const Host = defineComponent({ template: '<RouterView />' });
-  const host = mount(Host, {
-    global: { plugins: [pinia, router, [PrimeVue, { theme: 'none' }], ToastService, ConfirmationService], stubs: { teleport: true } },
-    attachTo: document.body,
-  });
-  await flushPromises();
   return host.getComponent(CampaignLedgerView);
 }
 
@@ -98,13 +58,12 @@ describe('CampaignLedgerView', { timeout: 20_000 }, () => {
         entry('3', 'debit', -250.5, -50.5, '2027-04-03T00:00:00.000Z', { externalJobId: '981235', overdraft: true }),
       ],
     };
-    vi.stubGlobal('fetch', vi.fn((url: string, init?: RequestInit) => Promise.resolve(serve(url, init))));
+    stubFetch(serve);
   });
 
   afterEach(() => {
-    vi.unstubAllGlobals();
+    resetTestPage();
     vi.restoreAllMocks();
-    document.body.innerHTML = '';
   });
 
   describe('what it shows', () => {

@@ -1,20 +1,13 @@
 import type { Run } from '@localis/shared';
-import { flushPromises, mount } from '@vue/test-utils';
-import { createPinia, setActivePinia } from 'pinia';
-import ConfirmationService from 'primevue/confirmationservice';
-import PrimeVue from 'primevue/config';
-import ToastService from 'primevue/toastservice';
-import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
-import { defineComponent } from 'vue';
-import { createMemoryHistory, createRouter } from 'vue-router';
+import { flushPromises } from '@vue/test-utils';
+import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { toLocalInput } from '../../lib/local-datetime';
+import { jsonResponse as json, notServed, stubFetch } from '../../test/fetch-stub';
+import { mountPage, resetTestPage } from '../../test/mount-in-app';
 import CampaignRunsView from './campaign-runs-view.vue';
-import { campaignFixture } from './test/campaign-fixture';
+import { CAN_NOTHING, campaignFixture, testRouter } from './test/campaign-fixture';
 
-const campaign = campaignFixture({
-  state: 'granted',
-  can: { edit: false, submit: false, withdraw: false, startReview: false, decide: false, recordRuns: true, transfer: false },
-});
+const campaign = campaignFixture({ state: 'granted', can: { ...CAN_NOTHING, recordRuns: true } });
 const BASE = `/api/v1/campaigns/${campaign.id}`;
 
 const recorded: Run = {
@@ -36,7 +29,6 @@ const recorded: Run = {
 };
 
 let requests: { method: string; url: string; body: unknown }[];
-const json = (status: number, body: unknown) => new Response(JSON.stringify(body), { status, headers: { 'content-type': 'application/json' } });
 
 function serve(url: string, init?: RequestInit): Response {
   const method = init?.method ?? 'GET';
@@ -45,44 +37,22 @@ function serve(url: string, init?: RequestInit): Response {
   if (url === BASE) return json(200, campaign);
   if (url.startsWith(`${BASE}/runs`) && method === 'GET') return json(200, { items: [recorded], total: 1, limit: 25, offset: 0 });
   if (url === `${BASE}/runs` && method === 'POST') return json(201, { ...recorded, ...body, id: '6a1b2c3d-4e5f-4a6b-8c7d-9e0f1a2b3c4d', coreHours: 12, refundedCoreHours: 0, source: 'portal' });
-  return json(404, { error: { code: 'not_found', message: `no ${url}` } });
+  return notServed(url);
 }
 
 async function mountRuns(query = '') {
-  const Blank = defineComponent({ template: '<p>page</p>' });
-  const router = createRouter({
-    history: createMemoryHistory(),
-    routes: [
-      { path: '/campaigns', name: 'campaigns', component: Blank },
-      { path: '/campaigns/:id', name: 'campaign-detail', component: Blank },
-      { path: '/campaigns/:id/ledger', name: 'campaign-ledger', component: Blank },
-      { path: '/campaigns/:id/runs', name: 'campaign-runs', component: CampaignRunsView, props: true },
-      { path: '/campaigns/:id/runs/import', name: 'campaign-runs-import', component: Blank },
-    ],
-  });
-  await router.push(`/campaigns/${campaign.id}/runs${query}`);
-  await router.isReady();
-  const pinia = createPinia();
-  setActivePinia(pinia);
-  const Host = defineComponent({ template: '<RouterView />' });
-  const host = mount(Host, {
-    global: { plugins: [pinia, router, [PrimeVue, { theme: 'none' }], ToastService, ConfirmationService], stubs: { teleport: true } },
-    attachTo: document.body,
-  });
-  await flushPromises();
+  const router = testRouter({ path: '/campaigns/:id/runs', name: 'campaign-runs', component: CampaignRunsView, props: true });
+  const host = await mountPage(router, `/campaigns/${campaign.id}/runs${query}`);
   return { wrapper: host.getComponent(CampaignRunsView), router };
 }
 
 describe('CampaignRunsView', { timeout: 20_000 }, () => {
   beforeEach(() => {
     requests = [];
-    vi.stubGlobal('fetch', vi.fn((url: string, init?: RequestInit) => Promise.resolve(serve(url, init))));
+    stubFetch(serve);
   });
 
-  afterEach(() => {
-    vi.unstubAllGlobals();
-    document.body.innerHTML = '';
-  });
+  afterEach(resetTestPage);
 
   describe('the table', () => {
     it('should ask for the filters in the address and show the runs with their parameters and refunds', async () => {

@@ -1,17 +1,9 @@
 import { describe, expect, it } from 'vitest';
 import type { RunInput } from '@localis/shared';
 import { failure } from '../../test/cli-error-of';
+import { WORKED_EXAMPLE_FLAGS as FLAGS } from '../../test/worked-example-run';
 import { checkCampaignId, checkIdempotencyKey, runFromFlags, runIdempotencyKey, type RunFlags } from './run-input';
 
-const FLAGS: RunFlags = {
-  job: '4711',
-  machine: 'cluster-a',
-  start: '2027-02-01T08:00:00Z',
-  end: '2027-02-01T20:00:00Z',
-  cores: '128',
-  code: 'tmm',
-  codeVersion: '1.4.2',
-};
 const CAMPAIGN = '3c000000-0000-4000-8000-000000000001';
 
 /** The problems runFromFlags reports, as `path: message` lines. */

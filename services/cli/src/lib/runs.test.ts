@@ -1,10 +1,11 @@
 import { writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
-import { formatCoreHours, Run, toMilli, type RunInput } from '@localis/shared';
+import { formatCoreHours, Run, toMilli } from '@localis/shared';
 import { failure } from '../../test/cli-error-of';
 import { demoToken, tempConfigDir } from '../../test/cli-harness';
 import { COMMITTEE_MEMBER, entriesOfJob, ledgerOf, QUANTUM_TRANSPORT, runsOf, SUBMITTED_PROPOSAL, tinyRun } from '../../test/demo-runs';
+import { WORKED_EXAMPLE_FLAGS, WORKED_EXAMPLE_RUN } from '../../test/worked-example-run';
 import type { Output } from './output';
 import { addRun, listRuns, type AddRunOptions, type ListRunsOptions } from './runs';
 
@@ -33,18 +34,7 @@ const ch = (x: number) => formatCoreHours(toMilli(x));
 describe('runs, before anything is sent', () => {
   const env = () => ({ LOCALIS_URL: 'http://127.0.0.1:4', LOCALIS_TOKEN: 'lcs_nevertobesentnevertobesent', LOCALIS_CONFIG_DIR: config.dir });
   const CAMPAIGN = QUANTUM_TRANSPORT.id;
-  const FLAGS = { job: '4711', machine: 'cluster-a', start: '2027-02-01T08:00:00Z', end: '2027-02-01T20:00:00Z', cores: '128', code: 'tmm', codeVersion: '1.4.2' };
-  const RUN: RunInput = {
-    externalJobId: '4711',
-    machine: 'cluster-a',
-    startedAt: '2027-02-01T08:00:00.000Z',
-    endedAt: '2027-02-01T20:00:00.000Z',
-    cores: 128,
-    codeName: 'tmm',
-    codeVersion: '1.4.2',
-    parameters: { sizes: [], disorder: [], energies: [], seeds: [] },
-  };
-  const options = (extra: Partial<AddRunOptions> = {}): AddRunOptions => ({ campaign: CAMPAIGN, json: false, profile: 'default', ...FLAGS, ...extra });
+  const options = (extra: Partial<AddRunOptions> = {}): AddRunOptions => ({ campaign: CAMPAIGN, json: false, profile: 'default', ...WORKED_EXAMPLE_FLAGS, ...extra });
   const fileOptions = (path: string, extra: Partial<AddRunOptions> = {}): AddRunOptions => ({ campaign: CAMPAIGN, json: false, profile: 'default', file: path, ...extra });
 
   describe('addRun', () => {
@@ -72,14 +62,14 @@ describe('runs, before anything is sent', () => {
     });
 
     it('should refuse a run file with a misspelt key at its path', async () => {
-      const e = await failure(addRun(fileOptions(file('run.json', { ...RUN, parameters: { size: [12] } })), io, env()));
+      const e = await failure(addRun(fileOptions(file('run.json', { ...WORKED_EXAMPLE_RUN, parameters: { size: [12] } })), io, env()));
       expect(e.exitCode).toBe(2);
       expect(e.message).toMatch(/run\.json is not a valid run; nothing was sent:$/);
       expect(e.details).toEqual([{ path: ['parameters'], message: 'Unrecognized key: "size"' }]);
     });
 
     it('should refuse a run file holding an array, and one that is not JSON', async () => {
-      expect((await failure(addRun(fileOptions(file('runs.json', [RUN])), io, env()))).message).toMatch(/holds an array, not a run/);
+      expect((await failure(addRun(fileOptions(file('runs.json', [WORKED_EXAMPLE_RUN])), io, env()))).message).toMatch(/holds an array, not a run/);
       const e = await failure(addRun(fileOptions(file('run.json', '{"cores": 4,}')), io, env()));
       expect(e.exitCode).toBe(2);
       expect(e.message).toMatch(/is not valid JSON: line 1/);
@@ -92,7 +82,7 @@ describe('runs, before anything is sent', () => {
     });
 
     it('should refuse --file together with run options', async () => {
-      const e = await failure(addRun(fileOptions(file('run.json', RUN), { cores: '4', codeVersion: '2' }), io, env()));
+      const e = await failure(addRun(fileOptions(file('run.json', WORKED_EXAMPLE_RUN), { cores: '4', codeVersion: '2' }), io, env()));
       expect(e).toMatchObject({ exitCode: 2, message: 'give the run either with --file or with options, not both (--file came with --cores, --code-version).' });
     });
 

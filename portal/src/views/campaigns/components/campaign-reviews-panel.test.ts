@@ -1,34 +1,16 @@
-import type { Assignment, Campaign, CampaignReviews } from '@localis/shared';
-import { flushPromises, mount } from '@vue/test-utils';
-import { createPinia, setActivePinia } from 'pinia';
-import ConfirmationService from 'primevue/confirmationservice';
-import PrimeVue from 'primevue/config';
-import ToastService from 'primevue/toastservice';
+import type { Campaign, CampaignReviews } from '@localis/shared';
+import { flushPromises } from '@vue/test-utils';
 import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
 import { defineComponent, h } from 'vue';
-import { RouterView } from 'vue-router';
-import { campaignFixture, testRouter } from '../test/campaign-fixture';
+import { jsonResponse as json } from '../../../test/fetch-stub';
+import { mountPage, resetTestPage } from '../../../test/mount-in-app';
+import { CAN_NOTHING as NO_CAN, campaignFixture, testRouter } from '../test/campaign-fixture';
+import { assignmentFixture, campaignReviewsFixture } from '../test/review-fixture';
 import CampaignReviewsPanel from './campaign-reviews-panel.vue';
 
-const NO_CAN = { edit: false, submit: false, withdraw: false, startReview: false, decide: false, recordRuns: false, transfer: false };
 const IN_REVIEW = campaignFixture({ state: 'in-review', grantedCoreHours: null, can: NO_CAN });
 
-function assignment(id: string, overrides: Partial<Assignment> = {}): Assignment {
-  return {
-    id,
-    campaignId: IN_REVIEW.id,
-    reviewerPersonId: '1f2e3d4c-5b6a-4798-8a7b-6c5d4e3f2a1b',
-    reviewerName: 'Odile Brandt',
-    reviewerInstitutionName: 'Kestrel University',
-    state: 'assigned',
-    conflictReason: null,
-    assignedAt: '2027-01-20T09:00:00.000Z',
-    review: null,
-    ...overrides,
-  };
-}
-
-const REVIEWED = assignment('7c6b5a49-3827-4165-9f4e-3d2c1b0a9f8e', {
+const REVIEWED = assignmentFixture({
   reviewerName: 'Tomas Vell',
   state: 'reviewed',
   review: {
@@ -40,41 +22,23 @@ const REVIEWED = assignment('7c6b5a49-3827-4165-9f4e-3d2c1b0a9f8e', {
     updatedAt: '2027-02-01T10:00:00.000Z',
   },
 });
-const WAITING = assignment('8d7c6b5a-4938-4276-8a5f-4e3d2c1b0a9f');
+const WAITING = assignmentFixture({ id: '8d7c6b5a-4938-4276-8a5f-4e3d2c1b0a9f' });
 
 function reviews(overrides: Partial<CampaignReviews> = {}): CampaignReviews {
-  return {
-    campaignId: IN_REVIEW.id,
-    audience: 'committee',
+  return campaignReviewsFixture({
     assignments: [REVIEWED, WAITING],
     summary: { reviews: 1, meanScores: { merit: 4, feasibility: 3, costJustification: 5 }, meanRecommendedCoreHours: 900_000 },
-    feedback: [],
-    decisionMessage: null,
     eligibleReviewers: [{ personId: '2a3b4c5d-6e7f-4809-9a1b-2c3d4e5f6a7b', name: 'Mira Solberg', institutionName: 'Kestrel University' }],
-    can: { assign: false, review: false, declareConflict: false, decide: false },
-    myAssignmentId: null,
     ...overrides,
-  };
+  });
 }
 
-const json = (status: number, body: unknown) => new Response(JSON.stringify(body), { status, headers: { 'content-type': 'application/json' } });
 let answer: CampaignReviews;
 
 async function mountPanel(campaign: Campaign = IN_REVIEW) {
   vi.stubGlobal('fetch', vi.fn(() => Promise.resolve(json(200, answer))));
-  const router = testRouter();
-  router.addRoute({ path: '/campaigns/:id/decision', name: 'campaign-decision', component: { template: '<div />' } });
-  router.addRoute({ path: '/panel', component: defineComponent({ render: () => h(CampaignReviewsPanel, { campaign }) }) });
-  await router.push('/panel');
-  await router.isReady();
-  const pinia = createPinia();
-  setActivePinia(pinia);
-  const host = mount(defineComponent({ render: () => h(RouterView) }), {
-    global: { plugins: [pinia, router, [PrimeVue, { theme: 'none' }], ToastService, ConfirmationService], stubs: { teleport: true } },
-    attachTo: document.body,
-  });
-  await flushPromises();
-  return host;
+  const router = testRouter({ path: '/panel', component: defineComponent({ render: () => h(CampaignReviewsPanel, { campaign }) }) });
+  return mountPage(router, '/panel');
 }
 
 describe('CampaignReviewsPanel', { timeout: 20_000 }, () => {
@@ -82,10 +46,7 @@ describe('CampaignReviewsPanel', { timeout: 20_000 }, () => {
     answer = reviews();
   });
 
-  afterEach(() => {
-    vi.unstubAllGlobals();
-    document.body.innerHTML = '';
-  });
+  afterEach(resetTestPage);
 
   describe('the office', () => {
     it('should offer to assign, to remove only reviewers who have not reviewed, and to decide', async () => {
@@ -133,7 +94,7 @@ describe('CampaignReviewsPanel', { timeout: 20_000 }, () => {
     });
 
     it('should say so and show no form when the member declared a conflict', async () => {
-      const mine = assignment(WAITING.id, { state: 'conflict', conflictReason: 'Co-author of the PI in 2026' });
+      const mine = { ...WAITING, state: 'conflict' as const, conflictReason: 'Co-author of the PI in 2026' };
       answer = reviews({ assignments: [REVIEWED, mine], myAssignmentId: mine.id, can: { assign: false, review: false, declareConflict: false, decide: false } });
       const wrapper = await mountPanel();
 

@@ -1,52 +1,36 @@
 import type { PoolUsage } from '@localis/shared';
-import { flushPromises, mount } from '@vue/test-utils';
-import { createPinia, setActivePinia } from 'pinia';
-import ConfirmationService from 'primevue/confirmationservice';
-import ConfirmDialog from 'primevue/confirmdialog';
-import PrimeVue from 'primevue/config';
+import { flushPromises } from '@vue/test-utils';
 import InputNumber from 'primevue/inputnumber';
-import ToastService from 'primevue/toastservice';
-import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
+import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { defineComponent, h } from 'vue';
-import { createMemoryHistory, createRouter, RouterView } from 'vue-router';
-import { campaignFixture } from '../test/campaign-fixture';
+import { jsonResponse as json, notServed, stubFetch } from '../../../test/fetch-stub';
+import { mountPage, resetTestPage } from '../../../test/mount-in-app';
+import { CAN_NOTHING, campaignFixture, testRouter } from '../test/campaign-fixture';
 import DecisionForm from './decision-form.vue';
 
 const CAMPAIGN = campaignFixture({
   state: 'in-review',
   requestedCoreHours: 1_250_000,
   grantedCoreHours: null,
-  can: { edit: false, submit: false, withdraw: true, startReview: false, decide: true, recordRuns: false, transfer: false },
+  can: { ...CAN_NOTHING, withdraw: true, decide: true },
 });
 
 function pool(unallocated: number): PoolUsage {
   return { roundId: CAMPAIGN.roundId, machine: 'cluster-a', pool: 5_000_000, granted: 5_000_000 - unallocated, used: 0, remaining: 5_000_000 - unallocated, unallocated, groups: [] };
 }
 
-const json = (status: number, body: unknown) => new Response(JSON.stringify(body), { status, headers: { 'content-type': 'application/json' } });
-
 let decisionAnswer: (body: Record<string, unknown>) => Response;
-let fetchMock: ReturnType<typeof vi.fn>;
+let fetchMock: ReturnType<typeof stubFetch>;
 
 function serve(url: string, init?: RequestInit): Response {
   if (url === `/api/v1/campaigns/${CAMPAIGN.id}/decision` && init?.method === 'POST') return decisionAnswer(JSON.parse(String(init.body)));
-  return json(404, { error: { code: 'not_found', message: `no ${url}` } });
+  return notServed(url);
 }
 
 async function mountForm(unallocated = 2_000_000, meanRecommended: number | null = 800_000) {
   const Page = defineComponent({ render: () => h(DecisionForm, { campaign: CAMPAIGN, pool: pool(unallocated), meanRecommended }) });
-  const router = createRouter({ history: createMemoryHistory(), routes: [{ path: '/campaigns/:id/decision', component: Page }] });
-  await router.push(`/campaigns/${CAMPAIGN.id}/decision`);
-  await router.isReady();
-  const pinia = createPinia();
-  setActivePinia(pinia);
   // The app's confirmation dialog sits beside the page, as in app.vue.
-  const Host = defineComponent({ render: () => [h(RouterView), h(ConfirmDialog)] });
-  const host = mount(Host, {
-    global: { plugins: [pinia, router, [PrimeVue, { theme: 'none' }], ToastService, ConfirmationService], stubs: { teleport: true } },
-    attachTo: document.body,
-  });
-  await flushPromises();
+  const host = await mountPage(testRouter({ path: '/campaigns/:id/decision', name: 'campaign-decision', component: Page }), `/campaigns/${CAMPAIGN.id}/decision`);
   return { host, form: host.getComponent(DecisionForm) };
 }
 
@@ -68,15 +52,11 @@ async function partOf(m: Mounted, coreHours: number): Promise<void> {
 
 describe('DecisionForm', { timeout: 20_000 }, () => {
   beforeEach(() => {
-    fetchMock = vi.fn((url: string, init?: RequestInit) => Promise.resolve(serve(url, init)));
-    vi.stubGlobal('fetch', fetchMock);
+    fetchMock = stubFetch(serve);
     decisionAnswer = (body) => json(200, { ...CAMPAIGN, state: body.outcome === 'decline' ? 'declined' : 'granted' });
   });
 
-  afterEach(() => {
-    vi.unstubAllGlobals();
-    document.body.innerHTML = '';
-  });
+  afterEach(resetTestPage);
 
   describe('the pool', () => {
     it('should refuse granting all beside the outcome as soon as it is chosen when the pool has less left than the request', async () => {
@@ -144,7 +124,7 @@ describe('DecisionForm', { timeout: 20_000 }, () => {
       await flushPromises();
 
       expect(posts()).toHaveLength(1);
-      expect(JSON.parse(String(posts()[0][1].body))).toEqual({
+      expect(JSON.parse(String(posts()[0][1]?.body))).toEqual({
         outcome: 'grant-part',
         coreHours: 600_000,
         message: 'Granted in part: the largest size is not needed for nu.',

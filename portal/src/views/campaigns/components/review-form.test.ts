@@ -1,17 +1,13 @@
 import type { Assignment, Review } from '@localis/shared';
-import { flushPromises, mount } from '@vue/test-utils';
-import { createPinia, setActivePinia } from 'pinia';
-import ConfirmationService from 'primevue/confirmationservice';
-import PrimeVue from 'primevue/config';
+import { flushPromises } from '@vue/test-utils';
 import InputNumber from 'primevue/inputnumber';
-import ToastService from 'primevue/toastservice';
-import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
+import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { defineComponent, h } from 'vue';
-import { createMemoryHistory, createRouter, RouterView } from 'vue-router';
+import { jsonResponse as json, notServed, stubFetch } from '../../../test/fetch-stub';
+import { mountPage, resetTestPage } from '../../../test/mount-in-app';
+import { testRouter } from '../test/campaign-fixture';
+import { assignmentFixture } from '../test/review-fixture';
 import ReviewForm from './review-form.vue';
-
-const CAMPAIGN_ID = '3a4b5c6d-7e8f-4a0b-9c1d-2e3f4a5b6c7d';
-const ASSIGNMENT_ID = '7c6b5a49-3827-4165-9f4e-3d2c1b0a9f8e';
 
 const SAVED: Review = {
   scores: { merit: 4, feasibility: 3, costJustification: 5 },
@@ -23,45 +19,26 @@ const SAVED: Review = {
 };
 
 function assignment(review: Review | null): Assignment {
-  return {
-    id: ASSIGNMENT_ID,
-    campaignId: CAMPAIGN_ID,
-    reviewerPersonId: '1f2e3d4c-5b6a-4798-8a7b-6c5d4e3f2a1b',
-    reviewerName: 'Odile Brandt',
-    reviewerInstitutionName: 'Kestrel University',
-    state: review ? 'reviewed' : 'assigned',
-    conflictReason: null,
-    assignedAt: '2027-01-20T09:00:00.000Z',
-    review,
-  };
+  return assignmentFixture({ state: review ? 'reviewed' : 'assigned', review });
 }
 
-const json = (status: number, body: unknown) => new Response(JSON.stringify(body), { status, headers: { 'content-type': 'application/json' } });
+const { id: ASSIGNMENT_ID, campaignId: CAMPAIGN_ID } = assignment(null);
 
 /** What PUT …/review answers in a test, given the body sent. */
 let putAnswer: (body: Record<string, unknown>) => Response;
-let fetchMock: ReturnType<typeof vi.fn>;
+let fetchMock: ReturnType<typeof stubFetch>;
 
 function serve(url: string, init?: RequestInit): Response {
   if (url === `/api/v1/campaigns/${CAMPAIGN_ID}/assignments/${ASSIGNMENT_ID}/review` && init?.method === 'PUT') return putAnswer(JSON.parse(String(init.body)));
   // The store reads the reviews again after a save; failing that read leaves the saved state in place.
   if (url === `/api/v1/campaigns/${CAMPAIGN_ID}/reviews`) return json(503, { error: { code: 'unavailable', message: 'not in this test' } });
-  return json(404, { error: { code: 'not_found', message: `no ${url}` } });
+  return notServed(url);
 }
 
 async function mountForm(review: Review | null = null) {
   const Page = defineComponent({ render: () => h(ReviewForm, { campaignId: CAMPAIGN_ID, assignment: assignment(review), requested: 1_250_000 }) });
   // Inside a route, as on the campaign page: the unsaved-changes guard watches leaving it.
-  const router = createRouter({ history: createMemoryHistory(), routes: [{ path: '/campaigns/:id', component: Page }] });
-  await router.push(`/campaigns/${CAMPAIGN_ID}`);
-  await router.isReady();
-  const pinia = createPinia();
-  setActivePinia(pinia);
-  const host = mount(defineComponent({ render: () => h(RouterView) }), {
-    global: { plugins: [pinia, router, [PrimeVue, { theme: 'none' }], ToastService, ConfirmationService], stubs: { teleport: true } },
-    attachTo: document.body,
-  });
-  await flushPromises();
+  const host = await mountPage(testRouter({ path: '/campaigns/:id', name: 'campaign-detail', component: Page }), `/campaigns/${CAMPAIGN_ID}`);
   return host.getComponent(ReviewForm);
 }
 
@@ -86,15 +63,11 @@ const puts = () => fetchMock.mock.calls.filter(([, init]) => init?.method === 'P
 
 describe('ReviewForm', { timeout: 20_000 }, () => {
   beforeEach(() => {
-    fetchMock = vi.fn((url: string, init?: RequestInit) => Promise.resolve(serve(url, init)));
-    vi.stubGlobal('fetch', fetchMock);
+    fetchMock = stubFetch(serve);
     putAnswer = (body) => json(200, { ...assignment({ ...SAVED, ...body } as Review), state: 'reviewed' });
   });
 
-  afterEach(() => {
-    vi.unstubAllGlobals();
-    document.body.innerHTML = '';
-  });
+  afterEach(resetTestPage);
 
   describe('a first review', () => {
     it('should show each criterion with its question and say nothing is submitted yet', async () => {
@@ -129,7 +102,7 @@ describe('ReviewForm', { timeout: 20_000 }, () => {
       await flushPromises();
 
       expect(puts()).toHaveLength(1);
-      expect(JSON.parse(String(puts()[0][1].body))).toEqual({
+      expect(JSON.parse(String(puts()[0][1]?.body))).toEqual({
         scores: { merit: 5, feasibility: 4, costJustification: 3 },
         toProposers: 'The **grid** brackets W_c well; drop L = 24.',
         confidential: 'The group used its last grant in full.',

@@ -4,10 +4,12 @@ import { useApiErrorToast } from '../../../composables/use-api-error-toast';
 import { useCampaignsStore } from '../../../stores/campaigns.store';
 
 /**
- * The campaign a page under /campaigns/:id shows (ledger, runs, import): loaded into the
+ * The campaign a page under /campaigns/:id shows (its own, decision, ledger, runs, import): loaded into the
  * campaigns store, with "not found" told apart from a failure so the page can say which.
+ * The window is titled "<pageTitle>: <campaign title>", or the campaign's title alone on its own
+ * page (pageTitle null). `afterLoad` runs once the campaign is there, for what else the page needs.
  */
-export function useCampaignPage(id: Ref<string>, pageTitle: string) {
+export function useCampaignPage(id: Ref<string>, pageTitle: string | null, afterLoad?: () => Promise<void>) {
   const store = useCampaignsStore();
   const showApiError = useApiErrorToast();
   const failure = ref<'not-found' | 'failed' | null>(null);
@@ -21,12 +23,14 @@ export function useCampaignPage(id: Ref<string>, pageTitle: string) {
     } catch (error) {
       failure.value = isApiError(error) && error.status === 404 ? 'not-found' : 'failed';
       if (failure.value === 'failed') showApiError(error, 'The campaign could not be loaded');
+      return;
     }
+    await afterLoad?.();
   }
 
   watch(id, load, { immediate: true });
   watch(campaign, (c) => {
-    if (c) document.title = `${pageTitle}: ${c.title} · Localis`;
+    if (c) document.title = `${pageTitle ? `${pageTitle}: ` : ''}${c.title} · Localis`;
   });
 
   return { campaign, failure, load };

@@ -1,26 +1,6 @@
-import type { LedgerEntry } from '@localis/shared';
 import { describe, expect, it } from 'vitest';
+import { ledgerEntryFixture as entry } from '../test/ledger-fixture';
 import { burnDownSeries, usedShare } from './ledger-burn-down';
-
-const CAMPAIGN = '11111111-1111-4111-8111-111111111111';
-
-function entry(kind: LedgerEntry['kind'], coreHours: number, balanceAfter: number, createdAt: string): LedgerEntry {
-  return {
-    id: `${createdAt}-${kind}`,
-    campaignId: CAMPAIGN,
-    kind,
-    coreHours,
-    balanceAfter,
-    runId: null,
-    externalJobId: null,
-    counterpartCampaignId: null,
-    counterpartTitle: null,
-    reason: null,
-    overdraft: false,
-    actorName: null,
-    createdAt,
-  };
-}
 
 const t = (iso: string) => new Date(iso).getTime();
 

@@ -1,25 +1,10 @@
-import type { ImportRow, RunImportResult } from '@localis/shared';
+import type { ImportRow } from '@localis/shared';
 import { describe, expect, it } from 'vitest';
+import { runImportFixture as result } from '../test/run-import-fixture';
 import { columnChoices, commitBlockers, enabledSteps, fieldsMappedTwice, mappingToSend, missingFieldLabel, rowStatus } from './run-import-steps';
 
 function row(over: Partial<ImportRow> = {}): ImportRow {
   return { line: 2, externalJobId: '1', startedAt: '2027-02-01T08:00:00.000Z', endedAt: '2027-02-01T09:00:00.000Z', cores: 4, coreHours: 4, errors: [], duplicate: null, ...over };
-}
-
-function result(over: Partial<RunImportResult> = {}): RunImportResult {
-  return {
-    dryRun: true,
-    committed: false,
-    columns: ['JobID', 'Start', 'End', 'AllocCPUS', 'Partition'],
-    mapping: { JobID: 'externalJobId', Start: 'startedAt', End: 'endedAt', AllocCPUS: 'cores', Partition: null },
-    unknownColumns: ['Partition'],
-    missingFields: [],
-    rows: [row()],
-    summary: { rows: 1, valid: 1, withErrors: 0, duplicates: 0, coreHours: 4 },
-    ledger: { remaining: 100, after: 96, allowed: true, overdraft: false },
-    runIds: [],
-    ...over,
-  };
 }
 
 describe('run-import-steps', () => {

@@ -1,5 +1,17 @@
 import type { Campaign } from '@localis/shared';
-import { createMemoryHistory, createRouter } from 'vue-router';
+import type { Router } from 'vue-router';
+import { memoryRouter, type TestRoute } from '../../../test/mount-in-app';
+
+/** What a campaign allows a reader who may do nothing with it; tests spread it and allow one thing. */
+export const CAN_NOTHING: Campaign['can'] = {
+  edit: false,
+  submit: false,
+  withdraw: false,
+  startReview: false,
+  decide: false,
+  recordRuns: false,
+  transfer: false,
+};
 
 /** A campaign as GET /campaigns/:id answers, for component tests. */
 export function campaignFixture(overrides: Partial<Campaign> = {}): Campaign {
@@ -55,22 +67,26 @@ export function campaignFixture(overrides: Partial<Campaign> = {}): Campaign {
     notices: [],
     history: [{ fromState: null, toState: 'draft', actorPersonId: null, actorName: 'Ilse Marrow', note: null, at: '2026-11-02T09:00:00.000Z' }],
     grantedCoreHours: null,
-    can: { edit: false, submit: false, withdraw: false, startReview: false, decide: false, recordRuns: false, transfer: false },
+    can: CAN_NOTHING,
     ...overrides,
   };
 }
 
-/** A router that knows the campaign pages by name, so links render. */
-export function testRouter() {
-  const page = { template: '<div />' };
-  return createRouter({
-    history: createMemoryHistory(),
-    routes: [
-      { path: '/', name: 'home', component: page },
-      { path: '/campaigns', name: 'campaigns', component: page },
-      { path: '/campaigns/:id', name: 'campaign-detail', component: page },
-      { path: '/campaigns/:id/edit', name: 'campaign-edit', component: page },
-      { path: '/campaigns/:id/print', name: 'campaign-print', component: page },
-    ],
-  });
+/** The campaign pages, blank: a router that knows them by name renders links to them. */
+const CAMPAIGN_PAGES: TestRoute[] = [
+  { path: '/', name: 'home' },
+  { path: '/campaigns', name: 'campaigns' },
+  { path: '/campaigns/:id', name: 'campaign-detail' },
+  { path: '/campaigns/:id/edit', name: 'campaign-edit' },
+  { path: '/campaigns/:id/print', name: 'campaign-print' },
+  { path: '/campaigns/:id/decision', name: 'campaign-decision' },
+  { path: '/campaigns/:id/ledger', name: 'campaign-ledger' },
+  { path: '/campaigns/:id/runs', name: 'campaign-runs' },
+  { path: '/campaigns/:id/runs/import', name: 'campaign-runs-import' },
+];
+
+/** A router that knows the campaign pages by name; `pages` are the real ones a test mounts, in place of the blank ones of the same name. */
+export function testRouter(...pages: TestRoute[]): Router {
+  const mounted = new Set(pages.map((p) => p.name));
+  return memoryRouter([...CAMPAIGN_PAGES.filter((p) => !mounted.has(p.name)), ...pages]);
 }

@@ -1,17 +1,15 @@
-import { flushPromises, mount } from '@vue/test-utils';
-import { createPinia, setActivePinia } from 'pinia';
-import PrimeVue from 'primevue/config';
-import ToastService from 'primevue/toastservice';
-import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
+import { flushPromises } from '@vue/test-utils';
+import { afterEach, beforeEach, describe, expect, it } from 'vitest';
+import { jsonResponse as json, notServed, stubFetch } from '../../../test/fetch-stub';
+import { mountInApp, resetTestPage } from '../../../test/mount-in-app';
 import MailPreferencesCard from './mail-preferences-card.vue';
 
 let stored: Record<string, boolean>;
 let patches: unknown[];
 let refuse: boolean;
-const json = (status: number, body: unknown) => new Response(JSON.stringify(body), { status, headers: { 'content-type': 'application/json' } });
 
 function serve(url: string, init?: RequestInit): Response {
-  if (url !== '/api/v1/me/mail-preferences') return json(404, { error: { code: 'not_found', message: `no ${url}` } });
+  if (url !== '/api/v1/me/mail-preferences') return notServed(url);
   if (init?.method === 'PATCH') {
     if (refuse) return json(503, { error: { code: 'unavailable', message: 'The api is resting.' } });
     const patch = JSON.parse(String(init.body)) as Record<string, boolean>;
@@ -21,30 +19,23 @@ function serve(url: string, init?: RequestInit): Response {
   return json(200, stored);
 }
 
-function mountCard() {
-  setActivePinia(createPinia());
-  return mount(MailPreferencesCard, { global: { plugins: [[PrimeVue, { theme: 'none' }], ToastService] }, attachTo: document.body });
-}
+const mountCard = () => mountInApp(MailPreferencesCard);
 
-const isOn = (wrapper: ReturnType<typeof mountCard>, kind: string) => (wrapper.get(`#mail-${kind}`).element as HTMLInputElement).checked;
+const isOn = (wrapper: Awaited<ReturnType<typeof mountCard>>, kind: string) => (wrapper.get(`#mail-${kind}`).element as HTMLInputElement).checked;
 
 describe('MailPreferencesCard', () => {
   beforeEach(() => {
     stored = { 'proposal-submitted': true, 'usage-threshold': true, 'round-closing': false };
     patches = [];
     refuse = false;
-    vi.stubGlobal('fetch', vi.fn((url: string, init?: RequestInit) => Promise.resolve(serve(url, init))));
+    stubFetch(serve);
   });
 
-  afterEach(() => {
-    vi.unstubAllGlobals();
-    document.body.innerHTML = '';
-  });
+  afterEach(resetTestPage);
 
   describe('the switches', () => {
     it('should show one switch per optional mail and say which mails always go out', async () => {
-      const wrapper = mountCard();
-      await flushPromises();
+      const wrapper = await mountCard();
       expect(wrapper.findAll('input[type="checkbox"]')).toHaveLength(3);
       expect(isOn(wrapper, 'round-closing')).toBe(false);
       expect(wrapper.text()).toContain('An allocation round closes in 14 days');
@@ -52,8 +43,7 @@ describe('MailPreferencesCard', () => {
     });
 
     it('should save a change at once, sending only that kind', async () => {
-      const wrapper = mountCard();
-      await flushPromises();
+      const wrapper = await mountCard();
       await wrapper.get('#mail-usage-threshold').setValue(false);
       await flushPromises();
       expect(patches).toEqual([{ 'usage-threshold': false }]);
@@ -61,8 +51,7 @@ describe('MailPreferencesCard', () => {
     });
 
     it('should show the stored value again when saving fails', async () => {
-      const wrapper = mountCard();
-      await flushPromises();
+      const wrapper = await mountCard();
       refuse = true;
       await wrapper.get('#mail-proposal-submitted').setValue(false);
       await flushPromises();

@@ -1,20 +1,6 @@
-import type { PoolUsage } from '@localis/shared';
 import { describe, expect, it } from 'vitest';
+import { POOL_USAGE as pool } from '../test/pool-usage-fixture';
 import { poolShares, UNALLOCATED_LABEL, usageBars } from './round-usage-chart';
-
-const pool: PoolUsage = {
-  roundId: '55555555-5555-4555-8555-555555555555',
-  machine: 'cluster-a',
-  pool: 10_000,
-  granted: 7_000,
-  used: 3_100,
-  remaining: 3_900,
-  unallocated: 3_000,
-  groups: [
-    { groupId: '66666666-6666-4666-8666-666666666666', groupName: 'Wave transport', granted: 4_000, used: 2_900, remaining: 1_100 },
-    { groupId: '77777777-7777-4777-8777-777777777777', groupName: 'Topological phases', granted: 3_000, used: 200, remaining: 2_800 },
-  ],
-};
 
 describe('round-usage-chart', () => {
   describe('usageBars', () => {

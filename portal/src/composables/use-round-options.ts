@@ -1,9 +1,12 @@
 import { MAX_PAGE_SIZE, type Round } from '@localis/shared';
 import { computed, onMounted, ref } from 'vue';
-import { roundsApi } from '../../../api/rounds.api';
-import { useApiErrorToast } from '../../../composables/use-api-error-toast';
+import { roundsApi } from '../api/rounds.api';
+import { useApiErrorToast } from './use-api-error-toast';
 
-/** Every round, newest first, for the queue's round filter. Loaded once per visit of the page. */
+/**
+ * Every round, newest first, as options of a round filter (a draft may sit in a closed round, so
+ * closed ones count too). Loaded once per visit of the page.
+ */
 export function useRoundOptions() {
   const rounds = ref<Round[]>([]);
   const showApiError = useApiErrorToast();
