@@ -15,7 +15,8 @@ export default defineConfig({
       // The cli signs in with the demo admin's token; it waits for the api suite, which changes admins.
       { test: { name: 'cli', include: ['services/cli/**/*.test.ts'], testTimeout: 30_000, hookTimeout: 60_000, sequence: { groupOrder: 1 } } },
       // The browser suite runs last (groupOrder) against the running test stack.
-      { test: { name: 'browser', include: ['portal/e2e/**/*.e2e.test.ts'], testTimeout: 90_000, hookTimeout: 90_000, fileParallelism: false, sequence: { groupOrder: 2 } } },
+      // Pages wait on the api, which shares the machine with the other suites: polls get 10 s, not 1 s.
+      { test: { name: 'browser', include: ['portal/e2e/**/*.e2e.test.ts'], testTimeout: 90_000, hookTimeout: 90_000, fileParallelism: false, sequence: { groupOrder: 2 }, expect: { poll: { timeout: 10_000 } } } },
     ],
   },
 });

@@ -25,7 +25,6 @@ const QUANTUM_TRANSPORT_GRANT = '5e000000-0000-4000-8000-000000000005';
 const DEVICE_MODELLING_GRANT = '5e000000-0000-4000-8000-000000000006';
 const ledgerOf = (campaignId: string): Promise<Ledger> => services.ledger.get(adminContext(), campaignId);
 const ledgersOfRunPlans = () => Promise.all(RUN_PLANS.map((p) => ledgerOf(p.campaignId)));
-const usedShare = (l: Ledger) => l.used / l.granted;
 
 describe('demo scenario', () => {
   describe('repeatability', () => {
@@ -99,11 +98,20 @@ describe('demo scenario', () => {
   });
 
   describe('runs and ledger', () => {
+    // Other suites (the CLI's and the browser's) charge small runs to the same demo grants in the
+    // same test database: these checks look at the scenario's own jobs.
+    const demoJobIds = (campaignId: string) => {
+      const plan = RUN_PLANS.find((p) => p.campaignId === campaignId)!;
+      return new Set(plan.steps.flatMap((s) => (s.kind === 'run' ? [s.run.externalJobId] : s.kind === 'import' ? s.runs.map((r) => r.externalJobId) : [])));
+    };
+
     it('should have used a bit more than 75 % of the Quantum Transport grant, with the 75 % alert and a refund', async () => {
       const ledger = await ledgerOf(QUANTUM_TRANSPORT_GRANT);
-      expect(usedShare(ledger)).toBeGreaterThanOrEqual(0.75);
-      expect(usedShare(ledger)).toBeLessThan(0.9);
-      expect(ledger.alerted).toEqual([75]);
+      const ours = demoJobIds(QUANTUM_TRANSPORT_GRANT);
+      const usedByDemo = -ledger.entries.filter((e) => (e.kind === 'debit' || e.kind === 'refund') && ours.has(e.externalJobId ?? '')).reduce((s, e) => s + e.coreHours, 0);
+      expect(usedByDemo / ledger.granted).toBeGreaterThanOrEqual(0.75);
+      expect(usedByDemo / ledger.granted).toBeLessThan(0.9);
+      expect(ledger.alerted).toContain(75);
       expect(ledger.entries.filter((e) => e.kind === 'refund')).toHaveLength(1);
       expect(ledger.entries.every((e) => !e.overdraft)).toBe(true);
     });
@@ -113,13 +121,13 @@ describe('demo scenario', () => {
       expect(ledger.used).toBeGreaterThan(0);
       expect(ledger.remaining).toBeGreaterThan(ledger.granted / 2);
       expect(ledger.alerted).toEqual([]);
-      expect(ledger.entries.filter((e) => e.kind === 'adjustment')).toHaveLength(1);
+      expect(ledger.entries.filter((e) => e.kind === 'adjustment' && !e.reason?.startsWith('matrix'))).toHaveLength(1);
     });
 
     it('should record every demo job once, one import among them, and none of the scheduler export kept for trying the import', async () => {
       for (const plan of RUN_PLANS) {
         const jobIds = plan.steps.flatMap((s) => (s.kind === 'run' ? [s.run.externalJobId] : s.kind === 'import' ? s.runs.map((r) => r.externalJobId) : []));
-        const runs = await Run.findAll({ where: { campaignId: plan.campaignId } });
+        const runs = await Run.findAll({ where: { campaignId: plan.campaignId, externalJobId: jobIds } });
         expect(runs.map((r) => r.externalJobId).sort()).toEqual([...jobIds].sort());
         for (const r of runs) {
           expect(r.cores).toBeGreaterThanOrEqual(64);

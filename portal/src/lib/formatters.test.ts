@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { daysUntil, formatCount, formatDaysFromNow, formatLocalDate, formatLocalDateTime, formatUtc, shortId } from './formatters';
+import { daysUntil, formatCount, formatDaysFromNow, formatLocalDate, formatLocalDateTime, formatUtc, endSentence, shortId } from './formatters';
 
 const berlin = { locale: 'en-GB', timeZone: 'Europe/Berlin' };
 
@@ -81,6 +81,23 @@ describe('shortId', () => {
     it('should keep short ids whole and cut long ones', () => {
       expect(shortId('4711')).toBe('4711');
       expect(shortId('x'.repeat(30))).toBe(`${'x'.repeat(23)}…`);
+    });
+  });
+});
+
+describe('endSentence', () => {
+  describe('the closing mark', () => {
+    it('should add a full stop when the text has none', () => {
+      expect(endSentence('I co-authored the pilot study')).toBe('I co-authored the pilot study.');
+    });
+
+    it.each(['We calibrate.', 'Really?', 'Same group!', 'And so on…'])('should add nothing when the text ends with its own mark: %s', (text) => {
+      expect(endSentence(text)).toBe(text);
+    });
+
+    it('should look past trailing spaces when the writer left some', () => {
+      expect(endSentence('We calibrate.  ')).toBe('We calibrate.');
+      expect(endSentence('We calibrate \n')).toBe('We calibrate.');
     });
   });
 });

@@ -72,3 +72,9 @@ export function formatCount(count: number, singular: string, plural = `${singula
 export function shortId(id: string): string {
   return /^[0-9a-f]{8}-[0-9a-f]{4}-/i.test(id) ? `…${id.slice(-8)}` : id.length > 24 ? `${id.slice(0, 23)}…` : id;
 }
+
+/** A sentence ending with its full stop, unless the writer already ended it (". ! ?", or "…"). */
+export function endSentence(text: string): string {
+  const trimmed = text.trimEnd();
+  return /[.!?…]$/.test(trimmed) ? trimmed : `${trimmed}.`;
+}

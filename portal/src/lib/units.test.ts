@@ -3,6 +3,11 @@ import { formatBytes, formatCoreHours, formatCoreHoursExact, formatCoreHoursPrec
 
 describe('units', () => {
   describe('formatCoreHours', () => {
+    it('should write the typographic minus when the amount is negative', () => {
+      expect(formatCoreHours(-12_345)).toBe('−12.3 k core-hours');
+      expect(formatCoreHours(-850)).toBe('−850 core-hours');
+    });
+
     it('should write whole core-hours with separators when the amount is below ten thousand', () => {
       expect(formatCoreHours(850)).toBe('850 core-hours');
       expect(formatCoreHours(9_876.4)).toBe('9,876 core-hours');
@@ -28,6 +33,11 @@ describe('units', () => {
   describe('formatCoreHoursExact', () => {
     it('should write every digit when the figure must add up', () => {
       expect(formatCoreHoursExact(1_234_567)).toBe('1,234,567 core-hours');
+    });
+
+    it('should write the typographic minus when the figure is negative', () => {
+      expect(formatCoreHoursExact(-250_000)).toBe('−250,000 core-hours');
+      expect(formatCoreHoursExact(-0.4)).toBe('0 core-hours');
     });
   });
 

@@ -6,7 +6,13 @@
 const GIB = 1024 ** 3;
 
 function significant(x: number, digits = 3): string {
-  return Number(x.toPrecision(digits)).toLocaleString('en', { maximumFractionDigits: 20 });
+  return typographicMinus(Number(x.toPrecision(digits)).toLocaleString('en', { maximumFractionDigits: 20 }));
+}
+
+/** Negative figures carry the typographic minus "−", as the ledger writes them; "-0" is just "0". */
+function typographicMinus(text: string): string {
+  if (/^-0(\.0*)?$/.test(text)) return text.slice(1);
+  return text.replace(/^-/, '−');
 }
 
 /** "850 core-hours", "20.4 core-hours", "12.3 k core-hours", "4.56 M core-hours", "0.25 core-hours". */
@@ -17,7 +23,7 @@ export function formatCoreHours(value: number | null | undefined): string {
   if (abs < 1) return `${significant(value, 2)} core-hours`;
   // Small totals keep three digits: a request is the estimate rounded up, and 20 next to 21 confuses.
   if (abs < 100) return `${significant(value)} core-hours`;
-  if (abs < 10_000) return `${Math.round(value).toLocaleString('en')} core-hours`;
+  if (abs < 10_000) return `${typographicMinus(Math.round(value).toLocaleString('en'))} core-hours`;
   if (abs < 1e6) return `${significant(value / 1e3)} k core-hours`;
   if (abs < 1e9) return `${significant(value / 1e6)} M core-hours`;
   return `${significant(value / 1e9)} G core-hours`;
@@ -26,7 +32,7 @@ export function formatCoreHours(value: number | null | undefined): string {
 /** Every digit, for a title attribute or a figure that must add up: "1,234,567 core-hours". */
 export function formatCoreHoursExact(value: number | null | undefined): string {
   if (value === null || value === undefined || !Number.isFinite(value)) return '';
-  return `${Math.round(value).toLocaleString('en')} core-hours`;
+  return `${typographicMinus(Math.round(value).toLocaleString('en'))} core-hours`;
 }
 
 /**

@@ -70,7 +70,7 @@ describe('CampaignLedgerView', { timeout: 20_000 }, () => {
     it('should show the balances, the overdraft policy and every entry newest first', async () => {
       const wrapper = await mountLedger(['pi']);
       expect(wrapper.get('[data-testid="ledger-granted"]').text()).toBe('1,000 core-hours');
-      expect(wrapper.get('[data-testid="ledger-remaining"]').text()).toBe('-50.5 core-hours');
+      expect(wrapper.get('[data-testid="ledger-remaining"]').text()).toBe('−50.5 core-hours');
       expect(wrapper.get('[data-testid="ledger-policy"]').text()).toContain('−100 core-hours (10 % of the grant)');
       const rows = wrapper.findAll('[data-testid="ledger-entries"] tbody tr');
       expect(rows).toHaveLength(3);

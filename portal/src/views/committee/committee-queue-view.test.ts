@@ -73,5 +73,27 @@ describe('CommitteeQueueView', { timeout: 20_000 }, () => {
       expect(wrapper.find('[data-testid="queue-scope"]').exists()).toBe(false);
       expect(wrapper.text()).toContain('No proposal is waiting for the committee');
     });
+
+    it('should leave out the "Your part" column when the person is not on the committee', async () => {
+      queue = [{ ...ITEM, myAssignmentId: null, myState: null }];
+      const { wrapper } = await mountQueue(['admin']);
+
+      const headers = wrapper.findAll('[data-testid="committee-queue"] thead th').map((th) => th.text());
+      expect(headers).toContain('Reviews');
+      expect(headers).not.toContain('Your part');
+    });
+  });
+
+  describe('columns', () => {
+    it('should leave out the Round column when one round is chosen', async () => {
+      queue = [ITEM];
+      const { wrapper, router } = await mountQueue(['committee']);
+      expect(wrapper.findAll('[data-testid="committee-queue"] thead th').map((th) => th.text())).toContain('Round');
+
+      await router.push({ path: '/committee', query: { roundId: ITEM.roundId } });
+      await flushPromises();
+
+      expect(wrapper.findAll('[data-testid="committee-queue"] thead th').map((th) => th.text())).not.toContain('Round');
+    });
   });
 });

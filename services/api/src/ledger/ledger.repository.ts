@@ -1,6 +1,6 @@
 import { QueryTypes, type Transaction } from 'sequelize';
 import { balancesOf, fromMilli, type Balances, type LedgerEntry as EntryDto, type LedgerKind, type PoolUsage } from '@localis/shared';
-import { Campaign, LedgerEntry, Person, Run, UsageAlert } from '../db/models';
+import { LedgerEntry, UsageAlert } from '../db/models';
 
 export interface NewEntry {
   campaignId: string;
@@ -65,39 +65,43 @@ export const ledgerRepository = {
     );
   },
 
-  /** Every entry of a campaign, oldest first, with the balance after each. */
+  /**
+   * Every entry of a campaign, oldest first, with the balance after each. One SQL statement with
+   * a running sum: a busy campaign has thousands of entries, and building model instances with
+   * three joins each cost seconds (npm run bench).
+   */
   async entries(campaignId: string, tx?: Transaction): Promise<EntryDto[]> {
-    const rows = await LedgerEntry.findAll({
-      where: { campaignId },
-      include: [
-        { model: Person, as: 'actor', attributes: ['name'] },
-        { model: Run, as: 'run', attributes: ['externalJobId'] },
-        { model: Campaign, as: 'counterpart', attributes: ['title'] },
-      ],
-      order: [['id', 'ASC']],
-      transaction: tx,
-    });
-    let balance = 0;
-    return rows.map((r) => {
-      const milli = Number(r.milli);
-      balance += milli;
-      const extra = r as unknown as { actor?: { name: string } | null; run?: { externalJobId: string } | null; counterpart?: { title: string } | null };
-      return {
-        id: String(r.id),
-        campaignId: r.campaignId,
-        kind: r.kind,
-        coreHours: fromMilli(milli),
-        balanceAfter: fromMilli(balance),
-        runId: r.runId,
-        externalJobId: extra.run?.externalJobId ?? null,
-        counterpartCampaignId: r.counterpartCampaignId,
-        counterpartTitle: extra.counterpart?.title ?? null,
-        reason: r.reason,
-        overdraft: r.overdraft,
-        actorName: extra.actor?.name ?? null,
-        createdAt: r.createdAt.toISOString(),
-      };
-    });
+    const rows = await q<{
+      id: string; campaign_id: string; kind: LedgerKind; milli: string; balance: string; run_id: string | null; external_job_id: string | null;
+      counterpart_campaign_id: string | null; counterpart_title: string | null; reason: string | null; overdraft: boolean; actor_name: string | null; created_at: Date;
+    }>(
+      `SELECT e.id::text, e.campaign_id, e.kind, e.milli::text, (sum(e.milli) OVER (ORDER BY e.id))::text AS balance,
+              e.run_id, r.external_job_id, e.counterpart_campaign_id, c.title AS counterpart_title, e.reason, e.overdraft,
+              p.name AS actor_name, e.created_at
+         FROM ledger_entries e
+         LEFT JOIN runs r ON r.id = e.run_id
+         LEFT JOIN campaigns c ON c.id = e.counterpart_campaign_id
+         LEFT JOIN people p ON p.id = e.actor_person_id
+        WHERE e.campaign_id = :campaignId
+        ORDER BY e.id`,
+      { campaignId },
+      tx,
+    );
+    return rows.map((r) => ({
+      id: r.id,
+      campaignId: r.campaign_id,
+      kind: r.kind,
+      coreHours: fromMilli(Number(r.milli)),
+      balanceAfter: fromMilli(Number(r.balance)),
+      runId: r.run_id,
+      externalJobId: r.external_job_id,
+      counterpartCampaignId: r.counterpart_campaign_id,
+      counterpartTitle: r.counterpart_title,
+      reason: r.reason,
+      overdraft: r.overdraft,
+      actorName: r.actor_name,
+      createdAt: new Date(r.created_at).toISOString(),
+    }));
   },
 
   async find(id: string, tx?: Transaction): Promise<EntryDto | null> {

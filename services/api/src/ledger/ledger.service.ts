@@ -8,6 +8,7 @@ import {
   thresholdsReached,
   toMilli,
   type AdjustmentInput,
+  type Balances,
   type Ledger,
   type LedgerEntry,
   type RefundInput,
@@ -40,7 +41,7 @@ function requireGranted(c: CampaignRecord, what: string): void {
  */
 export function createLedgerService(db: Database, campaigns: CampaignsService) {
   async function roundOf(c: CampaignRecord, tx?: Transaction) {
-    const round = await roundsRepository.find(c.roundId, tx);
+    const round = await roundsRepository.policy(c.roundId, tx);
     if (!round) throw errors.notFound('The round');
     return round;
   }
@@ -52,9 +53,12 @@ export function createLedgerService(db: Database, campaigns: CampaignsService) {
   }
 
   /** Alert each usage threshold the campaign has reached, once per grant. */
-  async function alertThresholds(campaignId: string, tx: Transaction): Promise<void> {
-    const balances = await ledgerRepository.balances(campaignId, tx);
-    for (const threshold of thresholdsReached(balances)) {
+  async function alertThresholds(campaignId: string, tx: Transaction, known?: Balances): Promise<void> {
+    const balances = known ?? (await ledgerRepository.balances(campaignId, tx));
+    const reached = thresholdsReached(balances);
+    if (!reached.length) return;
+    const alerted = new Set(await ledgerRepository.alertedThresholds(campaignId, tx));
+    for (const threshold of reached.filter((t) => !alerted.has(t))) {
       if (await ledgerRepository.markAlerted(campaignId, threshold, tx)) await notify({ kind: 'usage-threshold', campaignId, threshold }, tx);
     }
   }
@@ -115,7 +119,7 @@ export function createLedgerService(db: Database, campaigns: CampaignsService) {
         );
       }
       await ledgerRepository.append({ campaignId: c.id, kind: 'debit', milli: -run.milli, runId: run.id, overdraft: verdict.overdraft, actorPersonId: actorOf(ctx) }, tx);
-      await alertThresholds(c.id, tx);
+      await alertThresholds(c.id, tx, { ...balances, used: balances.used + run.milli, remaining: verdict.remainingAfter });
       return { overdraft: verdict.overdraft };
     },
 

@@ -46,6 +46,12 @@ export const roundsRepository = {
     return { items: rows.map((r) => toDto(r, counts.get(r.id) ?? 0)), total: count, limit: q.limit, offset: q.offset };
   },
 
+  /** What the ledger needs of a round on every charge, in one small query. */
+  async policy(id: string, tx?: Transaction): Promise<{ name: string; allocationEndsAt: string; overdraftPercent: number } | null> {
+    const r = await Round.findByPk(id, { attributes: ['name', 'allocationEndsAt', 'overdraftPercent'], transaction: tx });
+    return r ? { name: r.name, allocationEndsAt: r.allocationEndsAt.toISOString(), overdraftPercent: r.overdraftPercent } : null;
+  },
+
   async find(id: string, tx?: Transaction, lock: 'update' | 'share' | false = false): Promise<RoundDto | null> {
     const r = await Round.findByPk(id, { transaction: tx, lock: lock && tx ? (lock === 'share' ? tx.LOCK.SHARE : tx.LOCK.UPDATE) : undefined });
     if (!r) return null;

@@ -101,6 +101,14 @@ describe('CampaignReviewsPanel', { timeout: 20_000 }, () => {
       expect(wrapper.get('[data-testid="my-conflict"]').text()).toContain('Co-author of the PI in 2026');
       expect(wrapper.find('[data-testid="review-form"]').exists()).toBe(false);
     });
+
+    it('should not double the full stop when the member ended the reason with one', async () => {
+      const mine = { ...WAITING, state: 'conflict' as const, conflictReason: 'We calibrate.' };
+      answer = reviews({ assignments: [REVIEWED, mine], myAssignmentId: mine.id, can: { assign: false, review: false, declareConflict: false, decide: false } });
+      const wrapper = await mountPanel();
+
+      expect(wrapper.get('[data-testid="my-conflict"]').text()).toContain('We calibrate. You do not review this proposal.');
+    });
   });
 
   describe('the proposers', () => {

@@ -67,7 +67,7 @@ describe('DecisionForm', { timeout: 20_000 }, () => {
       expect(m.form.get('#decision-outcome-error').text()).toBe(
         'The request of 1,250,000 core-hours is more than the 1,000,000 core-hours left unallocated in the cluster-a pool: grant part of it or decline',
       );
-      expect(byTestId(m, 'pool-unallocated-after').text()).toContain('-250,000 core-hours · more than the pool has');
+      expect(byTestId(m, 'pool-unallocated-after').text()).toContain('−250,000 core-hours · more than the pool has');
 
       await byTestId(m, 'decision-message').setValue('Granted in full: the committee found the plan sound.');
       await m.form.get('form').trigger('submit');

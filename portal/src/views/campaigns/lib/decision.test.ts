@@ -1,6 +1,6 @@
 import { DecisionInput } from '@localis/shared';
 import { describe, expect, it } from 'vitest';
-import { decisionInputOf, decisionSentence, grantOf, grantProblems, poolImpact } from './decision';
+import { decisionInputOf, decisionSentence, grantOf, grantProblems, grantShareText, poolImpact } from './decision';
 
 const POOL = { pool: 5_000_000, granted: 3_000_000, unallocated: 2_000_000 };
 const context = { requested: 1_250_000, unallocated: 2_000_000, machine: 'cluster-a' };
@@ -18,6 +18,23 @@ describe('decision', () => {
     it('should grant nothing when declining and not know yet when nothing is chosen', () => {
       expect(grantOf({ outcome: 'decline', coreHours: 800_000 }, 1_250_000)).toBe(0);
       expect(grantOf({ outcome: null, coreHours: null }, 1_250_000)).toBeNull();
+    });
+  });
+
+  describe('grantShareText', () => {
+    it('should keep two significant digits when the grant is a tiny share of a huge pool', () => {
+      expect(grantShareText(3_000, 10_000_000)).toBe('0.03 % of the pool');
+      expect(grantShareText(1, 10_000_000)).toBe('0.00001 % of the pool');
+    });
+
+    it('should round to whole percent when the share is ten percent or more', () => {
+      expect(grantShareText(1_250_000, 5_000_000)).toBe('25 % of the pool');
+      expect(grantShareText(6_000_000, 5_000_000)).toBe('120 % of the pool');
+    });
+
+    it('should say nothing is taken when there is no grant and that there is no pool when it is empty', () => {
+      expect(grantShareText(0, 5_000_000)).toBe('0 % of the pool');
+      expect(grantShareText(100, 0)).toBe('no pool to share');
     });
   });
 

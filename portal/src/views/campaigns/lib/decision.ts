@@ -70,6 +70,18 @@ export function poolImpact(pool: Pick<PoolUsage, 'pool' | 'granted' | 'unallocat
 }
 
 /**
+ * This grant's share of the pool in words, "0.03 % of the pool", with two significant digits so
+ * that a grant far too small to see in the bar still reads as more than nothing.
+ */
+export function grantShareText(grant: number, pool: number): string {
+  if (pool <= 0) return 'no pool to share';
+  if (grant <= 0) return '0 % of the pool';
+  const pct = (grant / pool) * 100;
+  const text = pct >= 10 ? Math.round(pct).toLocaleString('en') : Number(pct.toPrecision(2)).toLocaleString('en', { maximumFractionDigits: 20 });
+  return `${text} % of the pool`;
+}
+
+/**
  * Rules the form checks beyond DecisionInput, keyed by the field they stand beside: a grant must
  * fit in what the pool has left (the api answers 409 otherwise), and a partial grant is less than
  * the request. `unallocated` is null when the pool could not be read; the api still checks.

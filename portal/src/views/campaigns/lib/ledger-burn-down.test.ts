@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { ledgerEntryFixture as entry } from '../test/ledger-fixture';
-import { burnDownSeries, usedShare } from './ledger-burn-down';
+import { burnDownSeries, burnDownTickUnit, usageLevel, usedShare } from './ledger-burn-down';
 
 const t = (iso: string) => new Date(iso).getTime();
 
@@ -75,6 +75,37 @@ describe('ledger-burn-down', () => {
       expect(usedShare({ granted: 1000, used: 1100 })).toBeCloseTo(1.1);
       expect(usedShare({ granted: 0, used: 0 })).toBe(0);
       expect(usedShare({ granted: 1000, used: -5 })).toBe(0);
+    });
+  });
+
+  describe('burnDownTickUnit', () => {
+    const at = (...times: string[]) => ({ remaining: times.map((t) => ({ x: new Date(t).getTime(), y: 0 })) });
+
+    it('should read in times of day when every point falls within two days', () => {
+      expect(burnDownTickUnit(at('2027-03-01T08:00:00Z', '2027-03-01T17:30:00Z'))).toBe('time');
+      expect(burnDownTickUnit(at('2027-03-01T08:00:00Z', '2027-03-03T08:00:00Z'))).toBe('time');
+    });
+
+    it('should read in dates when the points span more than two days', () => {
+      expect(burnDownTickUnit(at('2027-03-01T08:00:00Z', '2027-03-03T08:00:01Z'))).toBe('date');
+    });
+
+    it('should read in dates when there is nothing to draw', () => {
+      expect(burnDownTickUnit({ remaining: [] })).toBe('date');
+    });
+  });
+
+  describe('usageLevel', () => {
+    it('should stay plain below three quarters of the grant', () => {
+      expect(usageLevel(0)).toBe('ok');
+      expect(usageLevel(0.7499)).toBe('ok');
+    });
+
+    it('should warn from 75 % and turn to over from 100 %', () => {
+      expect(usageLevel(0.75)).toBe('warn');
+      expect(usageLevel(0.9999)).toBe('warn');
+      expect(usageLevel(1)).toBe('over');
+      expect(usageLevel(1.2)).toBe('over');
     });
   });
 });

@@ -44,7 +44,25 @@ export function burnDownSeries(ledger: Pick<Ledger, 'entries' | 'overdraftAllowa
   return { remaining, granted, floor };
 }
 
+/** Below this span the x axis reads in hours: days alone would label every tick the same. */
+const TIME_AXIS_SPAN_MS = 2 * 24 * 60 * 60 * 1000;
+
+/** Whether the axis ticks are dates or times of day: times when every point falls within two days. */
+export function burnDownTickUnit(series: Pick<BurnDownSeries, 'remaining'>): 'date' | 'time' {
+  const xs = series.remaining.map((p) => p.x);
+  if (xs.length === 0) return 'date';
+  return Math.max(...xs) - Math.min(...xs) <= TIME_AXIS_SPAN_MS ? 'time' : 'date';
+}
+
 /** The share of the grant used, 0..1 (more than 1 in an overdraft); 0 without a grant. */
 export function usedShare(ledger: Pick<Ledger, 'granted' | 'used'>): number {
   return ledger.granted > 0 ? Math.max(0, ledger.used) / ledger.granted : 0;
+}
+
+/** How a grant's use should look: amber from 75 % (the first usage mail), red from 100 %. */
+export type UsageLevel = 'ok' | 'warn' | 'over';
+
+export function usageLevel(share: number): UsageLevel {
+  if (share >= 1) return 'over';
+  return share >= 0.75 ? 'warn' : 'ok';
 }
