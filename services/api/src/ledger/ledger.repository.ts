@@ -70,21 +70,22 @@ export const ledgerRepository = {
    * a running sum: a busy campaign has thousands of entries, and building model instances with
    * three joins each cost seconds (npm run bench).
    */
-  async entries(campaignId: string, tx?: Transaction): Promise<EntryDto[]> {
+  async entries(campaignId: string, tx?: Transaction, onlyEntryId?: string): Promise<EntryDto[]> {
     const rows = await q<{
       id: string; campaign_id: string; kind: LedgerKind; milli: string; balance: string; run_id: string | null; external_job_id: string | null;
       counterpart_campaign_id: string | null; counterpart_title: string | null; reason: string | null; overdraft: boolean; actor_name: string | null; created_at: Date;
     }>(
-      `SELECT e.id::text, e.campaign_id, e.kind, e.milli::text, (sum(e.milli) OVER (ORDER BY e.id))::text AS balance,
+      `SELECT * FROM (SELECT e.id::text, e.campaign_id, e.kind, e.milli::text, (sum(e.milli) OVER (ORDER BY e.id))::text AS balance,
               e.run_id, r.external_job_id, e.counterpart_campaign_id, c.title AS counterpart_title, e.reason, e.overdraft,
               p.name AS actor_name, e.created_at
          FROM ledger_entries e
          LEFT JOIN runs r ON r.id = e.run_id
          LEFT JOIN campaigns c ON c.id = e.counterpart_campaign_id
          LEFT JOIN people p ON p.id = e.actor_person_id
-        WHERE e.campaign_id = :campaignId
-        ORDER BY e.id`,
-      { campaignId },
+        WHERE e.campaign_id = :campaignId) AS ledger
+        ${onlyEntryId ? 'WHERE ledger.id = :onlyEntryId' : ''}
+        ORDER BY ledger.id::bigint`,
+      { campaignId, onlyEntryId: onlyEntryId ?? null },
       tx,
     );
     return rows.map((r) => ({
@@ -107,7 +108,8 @@ export const ledgerRepository = {
   async find(id: string, tx?: Transaction): Promise<EntryDto | null> {
     const row = await LedgerEntry.findByPk(id, { transaction: tx });
     if (!row) return null;
-    return (await this.entries(row.campaignId, tx)).find((e) => e.id === id) ?? null;
+    // The balance after it needs the entries before it; the sum runs in SQL, one row comes back.
+    return (await this.entries(row.campaignId, tx, String(row.id)))[0] ?? null;
   },
 
   /** Milli-core-hours debited for a run less what was refunded of it. */

@@ -59,7 +59,7 @@ export function createRunsService(db: Database, campaigns: CampaignsService, led
   }
 
   /** Check every row of an import; nothing is written. */
-  async function preview(c: CampaignRecord, request: RunImportRequest, tx?: Transaction): Promise<RunImportResult & { fileError: string | null }> {
+  async function preview(c: CampaignRecord, request: RunImportRequest, tx?: Transaction): Promise<RunImportResult & { fileError: string | null; inputs: (RunInput | null)[] }> {
     const parsed = parseRunImport(request, c.machine);
     const recorded = await runsRepository.recordedJobIds(c.machine, parsed.rows.flatMap((r) => (r.input ? [r.input.externalJobId] : [])), tx);
     const seen = new Map<string, number>();
@@ -112,6 +112,7 @@ export function createRunsService(db: Database, campaigns: CampaignsService, led
       ledger: { remaining: fromMilli(balances.remaining), after: fromMilli(verdict.remainingAfter), allowed: granted && verdict.allowed, overdraft: verdict.allowed && verdict.overdraft },
       runIds: [],
       fileError: parsed.fileError,
+      inputs: parsed.rows.map((r) => r.input),
     };
   }
 
@@ -147,7 +148,7 @@ export function createRunsService(db: Database, campaigns: CampaignsService, led
       if (dryRun) {
         const c = await campaigns.findVisible(ctx, campaignId);
         await requireRecorder(ctx, c);
-        const { fileError: _f, ...result } = await preview(c, request);
+        const { fileError: _f, inputs: _i, ...result } = await preview(c, request);
         return result;
       }
       return db.transaction(async (tx) => {
@@ -165,7 +166,8 @@ export function createRunsService(db: Database, campaigns: CampaignsService, led
               : `The import was not recorded: "${c.title}" is not granted; runs are charged only to granted campaigns.`,
           );
         }
-        const inputs = parseRunImport(request, c.machine).rows.map((row) => row.input!);
+        // No problems: every row parsed to a run.
+        const inputs = result.inputs as RunInput[];
         const recordedBy = ctx.principal?.via === 'system' ? null : ctx.principal!.personId;
         let runIds: string[];
         try {
@@ -176,7 +178,7 @@ export function createRunsService(db: Database, campaigns: CampaignsService, led
         }
         await ledger.debitManyIn(ctx, c, runIds.map((id, i) => ({ id, milli: runMilli(inputs[i]) })), tx);
         await auditService.record(ctx, 'run.imported', { type: 'campaign', id: c.id }, { runs: runIds.length, coreHours: result.summary.coreHours }, tx);
-        const { fileError: _f, ...rest } = result;
+        const { fileError: _f, inputs: _i, ...rest } = result;
         return { ...rest, dryRun: false, committed: true, runIds };
       });
     },
