@@ -22,7 +22,7 @@ async function main() {
     openDomain: s.LOCALIS_PROFILE === 'test' ? 'test.example' : undefined,
   });
   closers.push(oidc.close);
-  const s3 = await startS3Fake({ host: '127.0.0.1', port: s.S3_PORT, directory: join(s.DATA_DIR, 's3'), buckets: [s.S3_BUCKET] });
+  const s3 = await startS3Fake({ host: '127.0.0.1', port: s.S3_PORT, directory: join(s.DATA_DIR, 's3'), buckets: [s.S3_BUCKET], corsOrigins: [new URL(s.PUBLIC_URL).origin] });
   closers.push(s3.close);
   const mail = await startMailFake({ host: s.SMTP_HOST, smtpPort: s.SMTP_PORT, inboxPort: s.MAIL_INBOX_PORT });
   closers.push(mail.close);

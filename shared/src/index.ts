@@ -17,3 +17,5 @@ export * from './reviews';
 export * from './ledger';
 export * from './runs';
 export * from './notifications';
+export * from './archives';
+export * from './provenance';

@@ -33,6 +33,8 @@ import { campaignsRoutes } from './campaigns/campaigns.router';
 import { reviewsRoutes } from './reviews/reviews.router';
 import { ledgerRoutes } from './ledger/ledger.router';
 import { runsRoutes } from './runs/runs.router';
+import { archivesRoutes } from './archives/archives.router';
+import { provenanceRoutes } from './provenance/provenance.router';
 import { notificationsRoutes } from './notifications/notifications.router';
 import { idempotency } from './http/idempotency';
 
@@ -64,6 +66,8 @@ export function buildRoutes(deps: AppDeps, authController: ReturnType<typeof cre
     ...ledgerRoutes(services.ledger),
     ...runsRoutes(services.runs),
     ...notificationsRoutes(services.notifications),
+    ...archivesRoutes(services.archives),
+    ...provenanceRoutes(services.provenance, services.archives.verifiedIdBySha256),
   ];
   let openapi: unknown;
   routes.push({
@@ -100,12 +104,14 @@ export function createApp(deps: AppDeps) {
         useDefaults: false,
         directives: {
           defaultSrc: ["'self'"],
-          scriptSrc: ["'self'"],
+          // hash-wasm computes an upload's SHA-256 in WebAssembly.
+          scriptSrc: ["'self'", "'wasm-unsafe-eval'"],
           // PrimeVue's styled mode writes its theme into <style> elements at run time.
           styleSrc: ["'self'", "'unsafe-inline'"],
           imgSrc: ["'self'", 'data:'],
           fontSrc: ["'self'", 'data:'],
-          connectSrc: ["'self'"],
+          // Parts go straight to the object store through presigned URLs.
+          connectSrc: ["'self'", new URL(s.S3_ENDPOINT).origin],
           objectSrc: ["'none'"],
           baseUri: ["'self'"],
           frameAncestors: ["'none'"],

@@ -11,11 +11,15 @@ import { createLedgerService } from './ledger/ledger.service';
 import { createRunsService } from './runs/runs.service';
 import { createReviewsService } from './reviews/reviews.service';
 import { createNotificationsService } from './notifications/notifications.service';
+import { createArchivesService } from './archives/archives.service';
+import { createObjectStore } from './archives/object-store';
+import { createProvenanceService } from './provenance/provenance.service';
 
 /** The composition root of the rules: seeds, the api and the worker all go through these. */
 export function createServices(db: Database, s: Settings) {
   const campaigns = createCampaignsService(db);
   const ledger = createLedgerService(db, campaigns);
+  const objectStore = createObjectStore(s);
   return {
     people: createPeopleService(db, s.PUBLIC_URL),
     institutions: createInstitutionsService(db),
@@ -28,6 +32,9 @@ export function createServices(db: Database, s: Settings) {
     runs: createRunsService(db, campaigns, ledger),
     reviews: createReviewsService(db, campaigns, ledger),
     notifications: createNotificationsService(db),
+    objectStore,
+    archives: createArchivesService(db, objectStore, campaigns),
+    provenance: createProvenanceService(db, s, campaigns),
   };
 }
 export type Services = ReturnType<typeof createServices>;

@@ -36,6 +36,8 @@ export const Settings = z.object({
   S3_ACCESS_KEY_ID: z.string().default('S3RVER'),
   S3_SECRET_ACCESS_KEY: z.string().default('S3RVER'),
   S3_BUCKET: z.string().default('localis-archives'),
+  /** The Ed25519 key that signs the provenance log's tree heads (PEM); made on first use when missing. */
+  PROVENANCE_KEY_FILE: z.string().default(''),
 
   OIDC_ISSUER: z.url().default('http://127.0.0.1:9400'),
   OIDC_PORT: port.default(9400),

@@ -73,6 +73,8 @@ beforeAll(async () => {
       return run.id;
     },
     scratch: {},
+    uploadingArchiveId: (await t.services.archives.create(as(pi), grantedId, { kind: 'results', fileName: 'matrix-read.tar.gz', sizeBytes: 20_000_000, runIds: [] })).archive.id,
+    latestTreeSize: async () => (await t.services.provenance.latestHead()).treeSize,
     roundId: round.id,
     draftId: await freshDraft(),
     submittedId: await freshSubmitted(),

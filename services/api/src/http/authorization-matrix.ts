@@ -38,6 +38,10 @@ export interface Fixtures {
   freshAssignment(): Promise<{ campaignId: string; assignmentId: string }>;
   /** A run of the granted campaign, recorded by its PI. */
   freshRun(): Promise<string>;
+  /** An archive of the granted campaign, still uploading (no parts sent), that rows read. */
+  uploadingArchiveId: string;
+  /** The size of the provenance log's latest signed head (a head that exists). */
+  latestTreeSize(): Promise<number>;
   /** Scratch space for rows that prepare records in `before`. */
   scratch: Record<string, string>;
 }
@@ -84,6 +88,7 @@ const MATRIX_REVIEW = { scores: { merit: 4, feasibility: 4, costJustification: 3
 // The group's campaigns: its members and the office see them, the committee once submitted, other groups never.
 const groupReaders = { ...only(200, ['researcher', 'pi', 'committee', 'admin']), otherGroupPi: 404 };
 const groupRecorders = (status: number) => ({ ...only(status, ['researcher', 'pi', 'admin']), otherGroupPi: 404 });
+const groupReadersWith = (status: number) => ({ ...only(status, ['researcher', 'pi', 'committee', 'admin']), otherGroupPi: 404 });
 
 export const MATRIX: MatrixRow[] = [
   { method: 'GET', route: '/healthz', path: fixed('/healthz'), expect: all(200) },
@@ -239,4 +244,30 @@ export const MATRIX: MatrixRow[] = [
   { method: 'POST', route: '/api/v1/campaigns/:id/runs', path: (f) => `/api/v1/campaigns/${f.grantedId}/runs`, body: () => tinyRun(), expect: groupRecorders(201) },
   { method: 'POST', route: '/api/v1/campaigns/:id/runs/import', path: (f) => `/api/v1/campaigns/${f.grantedId}/runs/import?dryRun=true`, body: () => tinyImport(), expect: groupRecorders(200) },
   { method: 'POST', route: '/api/v1/campaigns/:id/runs/import', path: (f) => `/api/v1/campaigns/${f.grantedId}/runs/import`, body: () => tinyImport(), expect: groupRecorders(201) },
+
+  { method: 'GET', route: '/api/v1/campaigns/:id/archives', path: (f) => `/api/v1/campaigns/${f.grantedId}/archives`, expect: groupReaders },
+  {
+    method: 'POST', route: '/api/v1/campaigns/:id/archives', path: (f) => `/api/v1/campaigns/${f.grantedId}/archives`,
+    body: () => ({ kind: 'results', fileName: 'matrix.tar.gz', sizeBytes: 20_000_000 }), expect: groupRecorders(201),
+  },
+  { method: 'GET', route: '/api/v1/archives/:id', path: (f) => `/api/v1/archives/${f.uploadingArchiveId}`, expect: groupReaders },
+  { method: 'GET', route: '/api/v1/archives/:id/parts', path: (f) => `/api/v1/archives/${f.uploadingArchiveId}/parts`, expect: groupReaders },
+  { method: 'POST', route: '/api/v1/archives/:id/part-urls', path: (f) => `/api/v1/archives/${f.uploadingArchiveId}/part-urls`, body: () => ({ partNumbers: [1, 2] }), expect: groupRecorders(200) },
+  // No part was sent: the uploaders get past the door and are told what is missing.
+  { method: 'POST', route: '/api/v1/archives/:id/complete', path: (f) => `/api/v1/archives/${f.uploadingArchiveId}/complete`, body: () => ({ sha256: 'a'.repeat(64) }), expect: groupRecorders(409) },
+  // Still uploading: the readers get past the door and are told it cannot be downloaded yet.
+  { method: 'GET', route: '/api/v1/archives/:id/download', path: (f) => `/api/v1/archives/${f.uploadingArchiveId}/download`, expect: groupReadersWith(409) },
+  {
+    method: 'POST', route: '/api/v1/archives/:id/withdraw', path: (f) => `/api/v1/archives/${f.uploadingArchiveId}/withdraw`,
+    body: () => ({ reason: 'withdrawn by the authorization matrix' }), expect: { ...only(409, ['pi', 'admin']), otherGroupPi: 404 },
+  },
+
+  { method: 'GET', route: '/api/v1/provenance/head', path: fixed('/api/v1/provenance/head'), expect: signedIn(200) },
+  { method: 'GET', route: '/api/v1/provenance/key', path: fixed('/api/v1/provenance/key'), expect: signedIn(200) },
+  { method: 'GET', route: '/api/v1/provenance/entries/:index', path: fixed('/api/v1/provenance/entries/0'), expect: signedIn(200) },
+  { method: 'GET', route: '/api/v1/provenance/consistency', path: async (f) => `/api/v1/provenance/consistency?from=${await f.latestTreeSize()}`, expect: signedIn(200) },
+  // No verified archive has this hash: the readers are let through and find nothing.
+  { method: 'GET', route: '/api/v1/provenance/archives/:sha256', path: fixed(`/api/v1/provenance/archives/${'0'.repeat(64)}`), expect: { ...only(404, ['researcher', 'pi', 'committee', 'admin', 'otherGroupPi']) } },
+  { method: 'GET', route: '/api/v1/campaigns/:id/provenance', path: (f) => `/api/v1/campaigns/${f.grantedId}/provenance`, expect: groupReaders },
+  { method: 'GET', route: '/api/v1/campaigns/:id/provenance', path: (f) => `/api/v1/campaigns/${f.grantedId}/provenance?format=prov-json`, expect: groupReaders },
 ];

@@ -19,6 +19,8 @@ import type { LedgerService } from '../ledger/ledger.service';
 import { notify } from '../notifications/notify';
 import { peopleRepository } from '../people/people.repository';
 import { reviewsRepository } from './reviews.repository';
+import { appendProvenance } from '../provenance/provenance.service';
+import { decisionRecord } from '../provenance/provenance-records';
 
 const BEFORE_DECISION = ['submitted', 'in-review'];
 const mean = (xs: number[]) => (xs.length ? Math.round((xs.reduce((a, b) => a + b, 0) / xs.length) * 100) / 100 : null);
@@ -191,6 +193,8 @@ export function createReviewsService(db: Database, campaigns: CampaignsService, 
         await campaigns.applyDecision(ctx, c, decision, tx);
         if (decision.grantedCoreHours > 0) await ledger.grantIn(ctx, c, decision.grantedCoreHours, tx);
         await notify({ kind: 'decision', campaignId: c.id }, tx);
+        const record = decisionRecord({ campaignId: c.id, campaignTitle: c.title, roundName: c.roundName, outcome: decision.outcome, grantedCoreHours: decision.grantedCoreHours, decidedBy: ctx.principal, at: new Date().toISOString() });
+        await appendProvenance([{ record, subjectId: c.id }], tx);
         return campaigns.detail(ctx, (await campaigns.findVisible(ctx, c.id, tx))!, tx);
       });
     },

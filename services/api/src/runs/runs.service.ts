@@ -24,6 +24,36 @@ import type { LedgerService } from '../ledger/ledger.service';
 import { ledgerRepository } from '../ledger/ledger.repository';
 import { roundsRepository } from '../rounds/rounds.repository';
 import { runsRepository } from './runs.repository';
+import { appendProvenance } from '../provenance/provenance.service';
+import { runRecord } from '../provenance/provenance-records';
+
+/** Each recorded run is an entry of the provenance log, written in the run's transaction. */
+function provenanceOfRuns(ctx: RequestContext, c: CampaignRecord, runs: { id: string; input: RunInput; milli: number }[], tx: Transaction) {
+  const p = ctx.principal;
+  const recordedBy = p && p.via !== 'system' ? { personId: p.personId, name: p.name } : null;
+  const at = new Date().toISOString();
+  return appendProvenance(
+    runs.map(({ id, input, milli }) => ({
+      subjectId: id,
+      record: runRecord({
+        id,
+        campaignId: c.id,
+        campaignTitle: c.title,
+        externalJobId: input.externalJobId,
+        machine: input.machine,
+        startedAt: new Date(input.startedAt).toISOString(),
+        endedAt: new Date(input.endedAt).toISOString(),
+        cores: input.cores,
+        coreHours: fromMilli(milli),
+        codeName: input.codeName,
+        codeVersion: input.codeVersion,
+        recordedBy,
+        at,
+      }),
+    })),
+    tx,
+  );
+}
 
 /** A run's core-hours: as given, or cores x wall-clock. */
 export const runMilli = (r: RunInput) => (r.coreHours !== undefined ? toMilli(r.coreHours) : runMilliCoreHours(r.cores, r.startedAt, r.endedAt));
@@ -55,6 +85,7 @@ export function createRunsService(db: Database, campaigns: CampaignsService, led
       throw e;
     }
     await ledger.debitIn(ctx, c, { id, externalJobId: input.externalJobId, milli }, tx);
+    await provenanceOfRuns(ctx, c, [{ id, input, milli }], tx);
     return id;
   }
 
@@ -177,6 +208,7 @@ export function createRunsService(db: Database, campaigns: CampaignsService, led
           throw e;
         }
         await ledger.debitManyIn(ctx, c, runIds.map((id, i) => ({ id, milli: runMilli(inputs[i]) })), tx);
+        await provenanceOfRuns(ctx, c, runIds.map((id, i) => ({ id, input: inputs[i], milli: runMilli(inputs[i]) })), tx);
         await auditService.record(ctx, 'run.imported', { type: 'campaign', id: c.id }, { runs: runIds.length, coreHours: result.summary.coreHours }, tx);
         const { fileError: _f, inputs: _i, ...rest } = result;
         return { ...rest, dryRun: false, committed: true, runIds };

@@ -1,7 +1,9 @@
 import { mailJob } from './mail.job';
 import { dailySweepJob } from './daily-sweep.job';
+import { verifyArchiveJob } from './verify-archive.job';
+import { sequenceProvenanceJob } from './sequence-provenance.job';
 import type { JobDefinition } from './job';
 
 /** Every job the worker runs; one BullMQ queue each. */
-export const JOBS: JobDefinition[] = [mailJob as JobDefinition, dailySweepJob as JobDefinition];
+export const JOBS: JobDefinition[] = [mailJob as JobDefinition, dailySweepJob as JobDefinition, verifyArchiveJob as JobDefinition, sequenceProvenanceJob as JobDefinition];
 export type { JobDefinition, JobDeps } from './job';

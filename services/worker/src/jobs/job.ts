@@ -16,5 +16,7 @@ export interface JobDeps {
 export interface JobDefinition<S extends z.ZodType = z.ZodType> {
   name: string;
   schema: S;
+  /** Jobs of this queue run at once in one worker (default 4). */
+  concurrency?: number;
   process(data: z.infer<S>, deps: JobDeps, job: Job): Promise<unknown>;
 }

@@ -11,8 +11,9 @@ import { Campaign, CampaignEvent } from './campaign.model';
 import { ReviewAssignment, Review } from './review.model';
 import { Run, LedgerEntry, UsageAlert } from './ledger.model';
 import { Notification, IdempotencyKey } from './notification.model';
+import { ArchiveRow, ProvenanceEntryRow, ProvenanceTreeHeadRow } from './archive.model';
 
-export { Institution, Person, ResearchGroup, GroupMembership, RoleGrant, ApiToken, AuditLog, OutboxMessage, Round, RoundPool, Campaign, CampaignEvent, ReviewAssignment, Review, Run, LedgerEntry, UsageAlert, Notification, IdempotencyKey };
+export { Institution, Person, ResearchGroup, GroupMembership, RoleGrant, ApiToken, AuditLog, OutboxMessage, Round, RoundPool, Campaign, CampaignEvent, ReviewAssignment, Review, Run, LedgerEntry, UsageAlert, Notification, IdempotencyKey, ArchiveRow, ProvenanceEntryRow, ProvenanceTreeHeadRow };
 
 export interface Models {
   Institution: typeof Institution;
@@ -34,6 +35,9 @@ export interface Models {
   UsageAlert: typeof UsageAlert;
   Notification: typeof Notification;
   IdempotencyKey: typeof IdempotencyKey;
+  ArchiveRow: typeof ArchiveRow;
+  ProvenanceEntryRow: typeof ProvenanceEntryRow;
+  ProvenanceTreeHeadRow: typeof ProvenanceTreeHeadRow;
 }
 
 /**
@@ -60,6 +64,9 @@ export function initModels(sequelize: Sequelize): Models {
   UsageAlert.initModel(sequelize);
   Notification.initModel(sequelize);
   IdempotencyKey.initModel(sequelize);
+  ArchiveRow.initModel(sequelize);
+  ProvenanceEntryRow.initModel(sequelize);
+  ProvenanceTreeHeadRow.initModel(sequelize);
 
   Person.belongsTo(Institution, { foreignKey: 'institutionId', as: 'institution' });
   Person.hasMany(RoleGrant, { foreignKey: 'personId', as: 'roleGrants' });
@@ -82,5 +89,7 @@ export function initModels(sequelize: Sequelize): Models {
   LedgerEntry.belongsTo(Person, { foreignKey: 'actorPersonId', as: 'actor' });
   LedgerEntry.belongsTo(Run, { foreignKey: 'runId', as: 'run' });
   LedgerEntry.belongsTo(Campaign, { foreignKey: 'counterpartCampaignId', as: 'counterpart' });
-  return { Institution, Person, ResearchGroup, GroupMembership, RoleGrant, ApiToken, AuditLog, OutboxMessage, Round, RoundPool, Campaign, CampaignEvent, ReviewAssignment, Review, Run, LedgerEntry, UsageAlert, Notification, IdempotencyKey };
+  ArchiveRow.belongsTo(Person, { foreignKey: 'uploadedByPersonId', as: 'uploadedBy' });
+  ArchiveRow.belongsTo(Person, { foreignKey: 'withdrawnByPersonId', as: 'withdrawnBy' });
+  return { Institution, Person, ResearchGroup, GroupMembership, RoleGrant, ApiToken, AuditLog, OutboxMessage, Round, RoundPool, Campaign, CampaignEvent, ReviewAssignment, Review, Run, LedgerEntry, UsageAlert, Notification, IdempotencyKey, ArchiveRow, ProvenanceEntryRow, ProvenanceTreeHeadRow };
 }
