@@ -4,6 +4,7 @@ import { resetAllStores } from '../stores/reset-plugin';
 import { useSessionStore } from '../stores/session.store';
 import { useApiErrorToast } from './use-api-error-toast';
 import { confirmLeavingForms } from './use-dirty-guard';
+import { pauseAllUploads } from '../views/campaigns/composables/use-archive-upload';
 
 function isHttpUrl(value: string): boolean {
   try {
@@ -26,6 +27,8 @@ export function useSignOut() {
     if (!(await confirmLeavingForms())) return;
     signingOut.value = true;
     try {
+      // Parts must not go on being sent for a person who has left; the uploads stay resumable.
+      pauseAllUploads();
       const result = await session.signOut();
       resetAllStores();
       if (result.endSessionUrl && isHttpUrl(result.endSessionUrl)) window.location.assign(result.endSessionUrl);

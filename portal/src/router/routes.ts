@@ -89,6 +89,13 @@ export const routes: RouteRecordRaw[] = [
     meta: { title: 'Import runs', requiresAuth: true, roles: RUN_RECORDERS },
   },
   {
+    path: '/campaigns/:id/archives',
+    name: 'campaign-archives',
+    component: () => import('../views/campaigns/campaign-archives-view.vue'),
+    props: true,
+    meta: { title: 'Archives', requiresAuth: true, roles: CAMPAIGN_READERS },
+  },
+  {
     path: '/campaigns/:id/print',
     name: 'campaign-print',
     component: () => import('../views/campaigns/campaign-print-view.vue'),

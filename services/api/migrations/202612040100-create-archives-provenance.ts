@@ -35,7 +35,9 @@ export const up: Migration['up'] = async ({ sequelize }) => {
         withdrawn_at timestamptz,
         withdrawn_reason text,
         withdrawn_by_person_id uuid REFERENCES people(id) ON DELETE SET NULL,
-        CHECK ((state = 'uploading') = (declared_sha256 IS NULL)),
+        -- Uploads declare their SHA-256 when complete; a cancelled or abandoned one never does.
+        CHECK (state <> 'uploading' OR declared_sha256 IS NULL),
+        CHECK (state IN ('uploading', 'rejected') OR declared_sha256 IS NOT NULL),
         CHECK ((withdrawn_at IS NULL) = (withdrawn_reason IS NULL)),
         CHECK (withdrawn_at IS NULL OR state IN ('verified', 'rejected'))
       );

@@ -108,6 +108,8 @@ export const ARCHIVE_PROBLEM_CODES = [
   'run-not-in-campaign',
   'campaign-mismatch',
   'wrong-type',
+  'upload-cancelled',
+  'upload-abandoned',
 ] as const;
 export const ArchiveProblemCode = z.enum(ARCHIVE_PROBLEM_CODES);
 export type ArchiveProblemCode = z.infer<typeof ArchiveProblemCode>;
@@ -270,6 +272,9 @@ export type WithdrawArchiveRequest = z.infer<typeof WithdrawArchiveRequest>;
 
 export const DownloadLink = z.object({ url: z.string(), expiresAt: z.string() }).meta({ id: 'DownloadLink' });
 export type DownloadLink = z.infer<typeof DownloadLink>;
+
+/** An upload not completed within this many days is abandoned by the daily sweep (its parts are dropped). */
+export const ABANDON_UPLOADS_AFTER_DAYS = 7;
 
 /** Verification job data. */
 export const VerifyArchiveJob = z.object({ archiveId: z.uuid() });

@@ -122,6 +122,12 @@ export const CampaignPermissions = z.object({
   recordRuns: z.boolean(),
   /** Granted, and the caller is the group's PI or the office. */
   transfer: z.boolean(),
+  /** Granted, and the caller is in the group or the office (tokens need the archives scope). */
+  uploadResults: z.boolean(),
+  /** The caller is in the group or the office: the science case and pilot timings go with the proposal. */
+  attachFiles: z.boolean(),
+  /** The group's PI or the office may withdraw a checked archive. */
+  withdrawArchives: z.boolean(),
 });
 export type CampaignPermissions = z.infer<typeof CampaignPermissions>;
 

@@ -61,7 +61,7 @@ function draft(overrides: Partial<Campaign> = {}): Campaign {
     estimate: estimateCampaign(DRAFT_SPEC),
     notices: [],
     history: [],
-    can: { edit: true, submit: true, withdraw: true, startReview: false, decide: false, recordRuns: false, transfer: false },
+    can: { edit: true, submit: true, withdraw: true, startReview: false, decide: false, recordRuns: false, transfer: false, uploadResults: false, attachFiles: false, withdrawArchives: false },
     ...overrides,
   };
 }
@@ -219,7 +219,7 @@ describe('CampaignFormView', { timeout: 20_000 }, () => {
     });
 
     it('should say the campaign cannot be changed when it is no longer a draft', async () => {
-      stored = draft({ state: 'submitted', can: { edit: false, submit: false, withdraw: true, startReview: false, decide: false, recordRuns: false, transfer: false } });
+      stored = draft({ state: 'submitted', can: { edit: false, submit: false, withdraw: true, startReview: false, decide: false, recordRuns: false, transfer: false, uploadResults: false, attachFiles: false, withdrawArchives: false } });
       const { wrapper } = await mountForm(`/campaigns/${SAVED_ID}/edit`);
 
       expect(field(wrapper, 'campaign-not-editable').text()).toContain('is submitted: only drafts can be changed');

@@ -11,6 +11,7 @@ export function createArchivesController(service: ArchivesService) {
     storedParts: async (req: Request, res: Response) => res.json(await service.storedParts(contextOf(req), id(req))),
     partUrls: async (req: Request, res: Response) => res.json(await service.partUrls(contextOf(req), id(req), req.valid.body.partNumbers)),
     complete: async (req: Request, res: Response) => res.json(await service.complete(contextOf(req), id(req), req.valid.body.sha256)),
+    cancel: async (req: Request, res: Response) => res.json(await service.cancel(contextOf(req), id(req))),
     download: async (req: Request, res: Response) => res.json(await service.download(contextOf(req), id(req))),
     withdraw: async (req: Request, res: Response) => res.json(await service.withdraw(contextOf(req), id(req), req.valid.body.reason)),
   };

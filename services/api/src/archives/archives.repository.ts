@@ -77,6 +77,15 @@ export const archivesRepository = {
     await ArchiveRow.update({ state: 'checking', checkAttempts: ArchiveRow.sequelize!.literal('check_attempts + 1') as unknown as number }, { where: { id, state: { [Op.in]: ['received', 'checking'] } }, transaction: tx });
   },
 
+  /** An unfinished upload ends rejected with its reason (cancelled, or abandoned). */
+  async endUpload(id: string, problem: ArchiveProblem, tx?: Transaction): Promise<number> {
+    const [n] = await ArchiveRow.update({ state: 'rejected', problems: [problem], uploadId: null, checkedAt: new Date() }, { where: { id, state: 'uploading' }, transaction: tx });
+    return n;
+  },
+
+  /** Uploads started before `before` and never completed. */
+  staleUploads: (before: Date) => ArchiveRow.findAll({ where: { state: 'uploading', createdAt: { [Op.lt]: before } }, limit: 500 }),
+
   async renewCheckLease(id: string): Promise<void> {
     await ArchiveRow.sequelize!.query("UPDATE archives SET updated_at = now() WHERE id = :id AND state = 'checking'", { replacements: { id } });
   },

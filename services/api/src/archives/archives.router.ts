@@ -36,6 +36,10 @@ export function archivesRoutes(service: ArchivesService) {
       access: upload, request: { params: IdParams, body: CompleteArchiveRequest }, responses: { 200: { description: 'The archive, received', schema: Archive } }, handler: c.complete,
     },
     {
+      method: 'post', path: '/archives/:id/cancel', tag: 'archives', summary: 'Give up an unfinished upload: its parts are dropped and the archive ends rejected (cancelled)',
+      access: upload, request: { params: IdParams }, responses: { 200: { description: 'The archive, rejected', schema: Archive } }, handler: c.cancel,
+    },
+    {
       method: 'get', path: '/archives/:id/download', tag: 'archives', summary: 'A presigned download URL valid for 15 minutes',
       access: access.read([...READERS]), request: { params: IdParams }, responses: { 200: { description: 'The URL', schema: DownloadLink } }, handler: c.download,
     },

@@ -183,9 +183,22 @@ export function createArchivesService(db: Database, store: ObjectStore, campaign
       });
     },
 
+    /** The uploader gives up: the parts are dropped and the archive ends rejected, with who cancelled it. */
+    async cancel(ctx: RequestContext, id: string): Promise<Archive> {
+      return db.transaction(async (tx) => {
+        const { a } = await uploading(ctx, id, tx, true);
+        if (a.state !== 'uploading') throw errors.conflict(`${a.fileName} is ${a.state}; only an unfinished upload can be cancelled (a checked archive is withdrawn instead).`);
+        if (a.uploadId) await store.abortUpload(a.objectKey, a.uploadId).catch((e) => (isNoSuchUpload(e) ? undefined : Promise.reject(e)));
+        await archivesRepository.endUpload(a.id, { code: 'upload-cancelled', message: `the upload was cancelled by ${ctx.principal!.name} before it was complete` }, tx);
+        await auditService.record(ctx, 'archive.upload-cancelled', { type: 'campaign', id: a.campaignId }, { archiveId: a.id }, tx);
+        return dto((await archivesRepository.find(a.id, tx))!, tx);
+      });
+    },
+
     async download(ctx: RequestContext, id: string): Promise<DownloadLink> {
       const { a } = await findVisible(ctx, id);
       if (a.state === 'uploading') throw errors.conflict(`${a.fileName} is still being uploaded; it can be downloaded once complete.`);
+      if (a.declaredSha256 === null) throw errors.conflict(`${a.fileName} was never completed; there is nothing to download.`);
       await auditService.record(ctx, 'archive.downloaded', { type: 'campaign', id: a.campaignId }, { archiveId: a.id });
       return { url: await store.downloadUrl(a.objectKey, a.fileName), expiresAt: new Date(Date.now() + PRESIGNED_SECONDS * 1000).toISOString() };
     },

@@ -6,6 +6,7 @@ import { actingAs, makeCampaignWorld, type CampaignWorld } from '../../test/camp
 import { complete, sendParts, sha256Of, startUpload, uploadArchive, type ApiCall } from '../../test/archive-upload';
 import { ArchiveBusy, createArchiveVerifier, type ArchiveVerifier } from './archive-verification';
 import { ArchiveRow, ProvenanceEntryRow } from '../db/models';
+import { abandonStaleUploads } from './abandoned-uploads';
 
 let t: TestApp;
 let w: CampaignWorld;
@@ -121,6 +122,32 @@ describe('uploading an archive in parts', () => {
     const upload = await startUpload(researcher, campaignId, 'two.tar.gz', Buffer.alloc(10));
     expect((await researcher('POST', `/archives/${upload.archive.id}/part-urls`, { partNumbers: [2] })).status).toBe(422);
     expect((await outsider('GET', `/archives/${upload.archive.id}`)).status).toBe(404);
+  });
+});
+
+describe('unfinished uploads', () => {
+  it('should end a cancelled upload rejected, with who cancelled it, and drop its parts', async () => {
+    const bytes = Buffer.alloc(9 * 1024 * 1024, 1);
+    const upload = await startUpload(researcher, campaignId, 'given-up.tar', bytes);
+    await sendParts(researcher, upload, bytes, [1]);
+    const res = await researcher('POST', `/archives/${upload.archive.id}/cancel`);
+    expect(res.status).toBe(200);
+    const cancelled = (await res.json()) as Archive;
+    expect(cancelled.state).toBe('rejected');
+    expect(cancelled.problems).toEqual([{ code: 'upload-cancelled', message: `the upload was cancelled by ${w.researcher.name} before it was complete` }]);
+    expect((await researcher('POST', `/archives/${upload.archive.id}/cancel`)).status).toBe(409);
+    expect((await researcher('GET', `/archives/${upload.archive.id}/download`)).status).toBe(409);
+    expect((await get<StoredParts>(researcher, `/archives/${upload.archive.id}/parts`)).parts).toEqual([]);
+  });
+
+  it('should abandon uploads left unfinished for a week (the daily sweep)', async () => {
+    const upload = await startUpload(researcher, campaignId, 'forgotten.tar.gz', Buffer.alloc(100));
+    await t.db.sequelize.query(`UPDATE archives SET created_at = now() - interval '8 days' WHERE id = '${upload.archive.id}'`);
+    expect(await abandonStaleUploads(t.db, t.services.objectStore, new Date())).toBeGreaterThanOrEqual(1);
+    const a = await get<Archive>(researcher, `/archives/${upload.archive.id}`);
+    expect(a.state).toBe('rejected');
+    expect(a.problems[0].code).toBe('upload-abandoned');
+    expect(await abandonStaleUploads(t.db, t.services.objectStore, new Date())).toBe(0);
   });
 });
 

@@ -50,6 +50,7 @@ export function createCampaignsService(db: Database) {
   function permissions(p: Principal, c: CampaignRecord, memberOf: boolean) {
     const mayWrite = canWrite(p);
     const ownerOrPi = isOwner(p, c) || isGroupPi(p, c);
+    const mayUpload = (p.via !== 'token' || p.scopes.includes('archives')) && (actsAsAdmin(p) || c.groupPiPersonId === p.personId || memberOf);
     return {
       edit: mayWrite && c.state === 'draft' && ownerOrPi,
       submit: mayWrite && canTransition(c.state, 'submit') && isGroupPi(p, c),
@@ -58,6 +59,9 @@ export function createCampaignsService(db: Database) {
       decide: canTransition(c.state, 'decide') && actsAsAdmin(p),
       recordRuns: isGranted(c) && (p.via !== 'token' || p.scopes.includes('runs')) && (actsAsAdmin(p) || c.groupPiPersonId === p.personId || memberOf),
       transfer: isGranted(c) && (actsAsAdmin(p) || isGroupPi(p, c)),
+      uploadResults: isGranted(c) && mayUpload,
+      attachFiles: mayUpload,
+      withdrawArchives: actsAsAdmin(p) || isGroupPi(p, c),
     };
   }
 

@@ -100,7 +100,7 @@ describe('campaigns', () => {
       expect(c.requestedCoreHours).toBe(Math.ceil(estimateReport(CampaignSpec.parse(SPEC)).totalCoreHours));
       expect(c.estimate.rows).toHaveLength(4);
       expect(c.history.map((h) => [h.fromState, h.toState])).toEqual([[null, 'draft']]);
-      expect(c.can).toEqual({ edit: true, submit: false, withdraw: true, startReview: false, decide: false, recordRuns: false, transfer: false });
+      expect(c.can).toEqual({ edit: true, submit: false, withdraw: true, startReview: false, decide: false, recordRuns: false, transfer: false, uploadResults: false, attachFiles: true, withdrawArchives: false });
       const audit = await AuditLog.findAll({ where: { targetType: 'campaign', targetId: c.id } });
       expect(audit.map((a) => a.action)).toEqual(['campaign.created']);
     });
@@ -195,7 +195,7 @@ describe('campaigns', () => {
       expect((await call(readOnlyResearcher, 'POST', `/campaigns/${c.id}/withdraw`)).status).toBe(403);
       expect((await call(readOnlyPi, 'POST', `/campaigns/${c.id}/submit`)).status).toBe(403);
       const seen = (await (await call(readOnlyResearcher, 'GET', `/campaigns/${c.id}`)).json()) as Campaign;
-      expect(seen.can).toEqual({ edit: false, submit: false, withdraw: false, startReview: false, decide: false, recordRuns: false, transfer: false });
+      expect(seen.can).toEqual({ edit: false, submit: false, withdraw: false, startReview: false, decide: false, recordRuns: false, transfer: false, uploadResults: false, attachFiles: false, withdrawArchives: false });
       expect(seen.state).toBe('draft');
     });
 

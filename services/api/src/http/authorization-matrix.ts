@@ -40,6 +40,8 @@ export interface Fixtures {
   freshRun(): Promise<string>;
   /** An archive of the granted campaign, still uploading (no parts sent), that rows read. */
   uploadingArchiveId: string;
+  /** A new archive of the granted campaign, uploading. */
+  freshUploadingArchive(): Promise<string>;
   /** The size of the provenance log's latest signed head (a head that exists). */
   latestTreeSize(): Promise<number>;
   /** Scratch space for rows that prepare records in `before`. */
@@ -255,6 +257,7 @@ export const MATRIX: MatrixRow[] = [
   { method: 'POST', route: '/api/v1/archives/:id/part-urls', path: (f) => `/api/v1/archives/${f.uploadingArchiveId}/part-urls`, body: () => ({ partNumbers: [1, 2] }), expect: groupRecorders(200) },
   // No part was sent: the uploaders get past the door and are told what is missing.
   { method: 'POST', route: '/api/v1/archives/:id/complete', path: (f) => `/api/v1/archives/${f.uploadingArchiveId}/complete`, body: () => ({ sha256: 'a'.repeat(64) }), expect: groupRecorders(409) },
+  { method: 'POST', route: '/api/v1/archives/:id/cancel', before: async (f) => { f.scratch.cancelArchive = await f.freshUploadingArchive(); }, path: (f) => `/api/v1/archives/${f.scratch.cancelArchive}/cancel`, expect: groupRecorders(200) },
   // Still uploading: the readers get past the door and are told it cannot be downloaded yet.
   { method: 'GET', route: '/api/v1/archives/:id/download', path: (f) => `/api/v1/archives/${f.uploadingArchiveId}/download`, expect: groupReadersWith(409) },
   {

@@ -2,6 +2,8 @@ import { z } from 'zod';
 import { QUEUES } from '@localis/shared';
 import { sendRoundClosingNotices } from '@localis/api/notifications/round-closing-notices';
 import { expireEndedAllocations } from '@localis/api/ledger/ledger-expiry';
+import { abandonStaleUploads } from '@localis/api/archives/abandoned-uploads';
+import { createObjectStore } from '@localis/api/archives/object-store';
 import type { JobDefinition } from './job';
 
 /** One scheduler under a fixed id: a restarted worker replaces it instead of adding a second. */
@@ -15,7 +17,7 @@ export const DAILY_SWEEP_EVERY_MS = 3_600_000;
 
 export const DailySweepData = z.object({});
 
-/** Round-closing notices (14 days ahead) and the expiry of grants whose allocation period ended. */
+/** Round-closing notices (14 days ahead), the expiry of grants whose allocation period ended, and uploads abandoned for a week. */
 export const dailySweepJob: JobDefinition<typeof DailySweepData> = {
   name: QUEUES.dailySweep,
   schema: DailySweepData,
@@ -23,12 +25,17 @@ export const dailySweepJob: JobDefinition<typeof DailySweepData> = {
     const now = new Date();
     // Independent chores: a failure in one must not hold back the other. The job fails (and is
     // retried) when either did, after both have had their turn.
-    const [notices, expiry] = await Promise.allSettled([sendRoundClosingNotices(db, now, settings.PUBLIC_URL), expireEndedAllocations(db, now)]);
+    const [notices, expiry, abandoned] = await Promise.allSettled([
+      sendRoundClosingNotices(db, now, settings.PUBLIC_URL),
+      expireEndedAllocations(db, now),
+      abandonStaleUploads(db, createObjectStore(settings), now),
+    ]);
     const noticed = notices.status === 'fulfilled' ? notices.value : [];
     const expired = expiry.status === 'fulfilled' ? expiry.value : 0;
-    logger.info({ roundClosingNotices: noticed.length, expiredAllocations: expired }, 'daily sweep done');
-    const failed = [notices, expiry].filter((r): r is PromiseRejectedResult => r.status === 'rejected');
+    const abandonedUploads = abandoned.status === 'fulfilled' ? abandoned.value : 0;
+    logger.info({ roundClosingNotices: noticed.length, expiredAllocations: expired, abandonedUploads }, 'daily sweep done');
+    const failed = [notices, expiry, abandoned].filter((r): r is PromiseRejectedResult => r.status === 'rejected');
     if (failed.length) throw new AggregateError(failed.map((r) => r.reason), `daily sweep: ${failed.length} chore(s) failed`);
-    return { roundClosingNotices: noticed, expiredAllocations: expired };
+    return { roundClosingNotices: noticed, expiredAllocations: expired, abandonedUploads };
   },
 };

@@ -76,8 +76,10 @@ function buildZip(entries: FixtureEntry[]): Buffer {
     if (ZIP_CANNOT_HOLD.includes(type)) throw new Error(`a zip archive cannot hold a ${type} entry (zip has no such entry type)`);
     const content = type === 'symlink' ? Buffer.from(entry.linkname ?? 'results/target') : toBuffer(entry.content);
     const name = type === 'directory' && !entry.name.endsWith('/') ? `${entry.name}/` : entry.name;
-    // Deflated, or stored when deflating does not help (as zip tools do with random data).
-    const deflated = type === 'file' && content.length > 0 ? deflateRawSync(content) : null;
+    // Deflated, or stored when deflating does not help (as zip tools do with random data; judged
+    // from the first 64 KiB, so that large random test files cost no deflating).
+    const probe = content.subarray(0, 64 * 1024);
+    const deflated = type === 'file' && content.length > 0 && deflateRawSync(probe).length < probe.length ? deflateRawSync(content) : null;
     const deflate = deflated !== null && deflated.length < content.length;
     return {
       name: Buffer.from(name),

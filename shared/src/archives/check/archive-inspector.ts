@@ -162,7 +162,11 @@ export class ArchiveInspector {
 
   /** @internal */
   finishEntry(name: string, seen: SeenFile, digest: Promise<string> | null, table: TableSummary | null, manifest: Buffer | 'too-large' | null): void {
-    if (digest) this.digests.push(digest.then((hex) => void (seen.sha256 = hex)));
+    if (digest) {
+      const settled = digest.then((hex) => void (seen.sha256 = hex));
+      settled.catch(() => undefined); // awaited by settleDigests, unless the check stopped early
+      this.digests.push(settled);
+    }
     this.files.set(name, seen);
     if (table) this.tables.push(table);
     if (manifest !== null) this.manifest = manifest;

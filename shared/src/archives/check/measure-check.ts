@@ -2,15 +2,19 @@
  * How fast an archive is verified, against `openssl dgst -sha256` and a plain read of the same file.
  * Not a test: run it by hand on an idle machine,
  *
- *   npx tsx shared/src/archives/check/measure-check.ts [--format tar.gz|tar|zip] [--mib 1024] [--level 1] [--keep]
+ *   npx tsx shared/src/archives/check/measure-check.ts [--format tar.gz|tar|zip] [--mib 1024] [--level 6] [--store s3] [--keep]
+ *   npx tsx shared/src/archives/check/measure-check.ts --archive /tmp/kept.tar [--store s3]   (an archive kept before)
  *
  * It writes an archive of random binary files plus a small lambda table to /tmp (manifest last, so
  * nothing is written twice), times a plain read, openssl and checkArchive (best of three each, the
  * page cache warm for all), prints MB/s and the ratio to the slower of the read and openssl, and
- * deletes the file unless --keep is given. --level is the gzip level for tar.gz (6, as `tar czf`;
- * random data ends up in stored blocks either way).
+ * deletes the file unless --keep is given. --level is the gzip level for tar.gz (6, as `tar czf`).
+ *
+ * With --store s3 the archive is also put in an S3 store (s3rver, the development fake, in a child
+ * process) and read back the way the worker reads it: the plain read is a whole GetObject, and the
+ * check reads through ranged GetObjects.
  */
-import { spawnSync } from 'node:child_process';
+import { spawn, spawnSync } from 'node:child_process';
 import { createHash, randomFillSync } from 'node:crypto';
 import { createReadStream, createWriteStream } from 'node:fs';
 import { rm } from 'node:fs/promises';
@@ -19,10 +23,12 @@ import { pipeline } from 'node:stream/promises';
 import { parseArgs } from 'node:util';
 import { createGzip } from 'node:zlib';
 import { pack as tarPack } from 'tar-stream';
+import { GetObjectCommand, S3Client } from '@aws-sdk/client-s3';
+import { Upload } from '@aws-sdk/lib-storage';
 import { ZipFile } from 'yazl';
-import { ARCHIVE_FORMAT_VERSION, type ArchiveManifest } from '../archive.schema';
+import { ARCHIVE_FORMAT_VERSION, formatOfFileName, type ArchiveManifest } from '../archive.schema';
 import { FIXTURE_CAMPAIGN_ID, FIXTURE_RUN_IDS, FIXTURE_SPEC, lambdaTable } from './archive-fixtures';
-import { localFileSource, READ_CHUNK_BYTES, type ResultArchiveFormat } from './archive-source';
+import { localFileSource, READ_CHUNK_BYTES, type ByteSource, type ResultArchiveFormat } from './archive-source';
 import { checkArchive } from './check-archive';
 
 const { values } = parseArgs({
@@ -31,13 +37,15 @@ const { values } = parseArgs({
     mib: { type: 'string', default: '1024' },
     level: { type: 'string', default: '6' },
     keep: { type: 'boolean', default: false },
+    store: { type: 'string', default: 'file' },
+    archive: { type: 'string' },
   },
 });
-const format = values.format as ResultArchiveFormat;
+const format = (values.archive ? formatOfFileName(values.archive) : values.format) as ResultArchiveFormat;
 if (!['tar.gz', 'tar', 'zip'].includes(format)) throw new Error('--format is tar.gz, tar or zip');
 const totalMiB = Number(values.mib);
 const FILE_MIB = 128;
-const path = `/tmp/localis-measure-${process.pid}.${format}`;
+const path = values.archive ?? `/tmp/localis-measure-${process.pid}.${format}`;
 
 /** `mib` MiB of random bytes, made as they are read (and hashed on the way). */
 function randomFile(mib: number, hash: ReturnType<typeof createHash>): Readable {
@@ -113,15 +121,56 @@ async function best(runs: number, work: () => Promise<unknown>): Promise<number>
   return fastest;
 }
 
+/** s3rver in a child process (so that it does not share this event loop), with the archive put in it. */
+async function s3Store(file: string, sizeBytes: number) {
+  const directory = `/tmp/localis-measure-s3-${process.pid}`;
+  const script = `const S3rver = require('s3rver');
+    new S3rver({ address: '127.0.0.1', port: 0, silent: true, directory: ${JSON.stringify(directory)}, configureBuckets: [{ name: 'measure' }] })
+      .run().then((a) => console.log(JSON.stringify(a)));`;
+  const child = spawn(process.execPath, ['-e', script], { cwd: process.cwd(), stdio: ['ignore', 'pipe', 'inherit'] });
+  const port = await new Promise<number>((resolve, reject) => {
+    child.stdout!.once('data', (line: Buffer) => resolve(JSON.parse(line.toString()).port));
+    child.once('exit', (code) => reject(new Error(`s3rver stopped (${code})`)));
+  });
+  const client = new S3Client({
+    region: 'us-east-1',
+    endpoint: `http://127.0.0.1:${port}`,
+    forcePathStyle: true,
+    credentials: { accessKeyId: 'S3RVER', secretAccessKey: 'S3RVER' },
+    requestChecksumCalculation: 'WHEN_REQUIRED',
+    responseChecksumValidation: 'WHEN_REQUIRED',
+  });
+  const key = `archive.${format}`;
+  await new Upload({ client, params: { Bucket: 'measure', Key: key, Body: createReadStream(file, { highWaterMark: READ_CHUNK_BYTES }) }, partSize: 64 * 1024 * 1024 }).done();
+  const get = async (range?: { start: number; end: number }) => {
+    const answer = await client.send(new GetObjectCommand({ Bucket: 'measure', Key: key, Range: range ? `bytes=${range.start}-${range.end - 1}` : undefined }));
+    return answer.Body as Readable;
+  };
+  const source: ByteSource = { format, sizeBytes, open: (range) => (range && range.end <= range.start ? Promise.resolve(Readable.from([])) : get(range)) };
+  return {
+    source,
+    read: async () => {
+      for await (const chunk of await get()) void chunk;
+    },
+    stop: async () => {
+      child.kill();
+      client.destroy();
+      await rm(directory, { recursive: true, force: true });
+    },
+  };
+}
+
 const made = performance.now();
-await writeArchive();
-const source = await localFileSource(path);
-const megabytes = source.sizeBytes / 1e6;
-console.log(`${path}: ${(source.sizeBytes / 1024 ** 3).toFixed(2)} GiB, ${format}${format === 'tar.gz' ? ` (gzip level ${values.level})` : ''}, written in ${((performance.now() - made) / 1000).toFixed(1)} s`);
+if (!values.archive) await writeArchive();
+const local = await localFileSource(path);
+const megabytes = local.sizeBytes / 1e6;
+console.log(`${path}: ${(local.sizeBytes / 1024 ** 3).toFixed(2)} GiB, ${format}${format === 'tar.gz' ? ` (gzip level ${values.level})` : ''}, written in ${((performance.now() - made) / 1000).toFixed(1)} s`);
+const store = values.store === 's3' ? await s3Store(path, local.sizeBytes) : null;
 try {
   let opensslHex = '';
   const read = await best(3, async () => {
-    for await (const chunk of createReadStream(path, { highWaterMark: READ_CHUNK_BYTES })) void chunk;
+    if (store) await store.read();
+    else for await (const chunk of createReadStream(path, { highWaterMark: READ_CHUNK_BYTES })) void chunk;
   });
   const openssl = await best(3, async () => {
     const run = spawnSync('openssl', ['dgst', '-sha256', '-r', path], { encoding: 'utf8' });
@@ -132,17 +181,18 @@ try {
   let cpu = Infinity;
   const check = await best(3, async () => {
     const before = process.cpuUsage();
-    const result = await checkArchive(source, { expected: { sha256: opensslHex, sizeBytes: source.sizeBytes } });
+    const result = await checkArchive(store?.source ?? local, { expected: { sha256: opensslHex, sizeBytes: local.sizeBytes } });
     const used = process.cpuUsage(before);
     cpu = Math.min(cpu, (used.user + used.system) / 1e6);
     problems = result.problems.length ? JSON.stringify(result.problems) : 'none';
   });
   const reference = Math.max(read, openssl);
-  const line = (what: string, seconds: number) => `${what.padEnd(22)} ${seconds.toFixed(3)} s  ${(megabytes / seconds).toFixed(0).padStart(5)} MB/s`;
-  console.log(line('plain read (node)', read));
+  const line = (what: string, seconds: number) => `${what.padEnd(24)} ${seconds.toFixed(3)} s  ${(megabytes / seconds).toFixed(0).padStart(5)} MB/s`;
+  console.log(line(store ? 'store read (GetObject)' : 'plain read (node)', read));
   console.log(line('openssl dgst -sha256', openssl));
-  console.log(`${line('checkArchive', check)}  (${cpu.toFixed(2)} s of CPU over all threads)`);
+  console.log(`${line(`checkArchive (${store ? 's3' : 'file'})`, check)}  (${cpu.toFixed(2)} s of CPU in this process, all threads)`);
   console.log(`ratio check / slower of read and openssl: ${(check / reference).toFixed(2)} (target ≤ 1.25); problems: ${problems}`);
 } finally {
-  if (!values.keep) await rm(path, { force: true });
+  await store?.stop();
+  if (!values.keep && !values.archive) await rm(path, { force: true });
 }

@@ -5,7 +5,7 @@ import { campaignFixture, testRouter } from '../test/campaign-fixture';
 import CampaignHeader from './campaign-header.vue';
 
 function mountHeader(can: Partial<ReturnType<typeof campaignFixture>['can']>, state: ReturnType<typeof campaignFixture>['state'] = 'draft') {
-  const campaign = campaignFixture({ state, can: { edit: false, submit: false, withdraw: false, startReview: false, decide: false, recordRuns: false, transfer: false, ...can } });
+  const campaign = campaignFixture({ state, can: { edit: false, submit: false, withdraw: false, startReview: false, decide: false, recordRuns: false, transfer: false, uploadResults: false, attachFiles: false, withdrawArchives: false, ...can } });
   return mount(CampaignHeader, { props: { campaign }, global: { plugins: [[PrimeVue, { theme: 'none' }], testRouter()] } });
 }
 

@@ -2,7 +2,7 @@ import type { CampaignSummary } from '@localis/shared';
 import { describe, expect, it } from 'vitest';
 import { availableTransitions, TRANSITIONS } from './campaign-transitions';
 
-const none = { edit: false, submit: false, withdraw: false, startReview: false, decide: false, recordRuns: false, transfer: false };
+const none = { edit: false, submit: false, withdraw: false, startReview: false, decide: false, recordRuns: false, transfer: false, uploadResults: false, attachFiles: false, withdrawArchives: false };
 
 describe('campaign-transitions', () => {
   describe('availableTransitions', () => {

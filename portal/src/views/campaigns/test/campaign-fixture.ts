@@ -11,6 +11,9 @@ export const CAN_NOTHING: Campaign['can'] = {
   decide: false,
   recordRuns: false,
   transfer: false,
+  uploadResults: false,
+  attachFiles: false,
+  withdrawArchives: false,
 };
 
 /** A campaign as GET /campaigns/:id answers, for component tests. */
