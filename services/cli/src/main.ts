@@ -4,7 +4,10 @@ import { estimateCommand } from './commands/estimate.command';
 import { loginCommand } from './commands/login.command';
 import { logoutCommand } from './commands/logout.command';
 import { runsCommand } from './commands/runs.command';
+import { packCommand } from './commands/pack.command';
 import { tmmCommand } from './commands/tmm.command';
+import { uploadCommand } from './commands/upload.command';
+import { verifyCommand } from './commands/verify.command';
 import { whoamiCommand } from './commands/whoami.command';
 import { EXIT, formatError, isCliError } from './lib/cli-error';
 import { CLI_VERSION } from './lib/version';
@@ -30,6 +33,12 @@ Record runs on a granted campaign (token scope "runs"):
   $ localis runs add --campaign <id> --file run.json
   $ localis runs list --campaign <id>
 
+Result archives (token scope "archives"):
+  $ localis pack results/ --campaign <id> --code-name tmm ... # manifest + archive
+  $ localis verify results.tar.gz                 # the portal's checks, here
+  $ localis upload results.tar.gz --campaign <id> # resumable; waits for the check
+  $ localis verify --log                          # the provenance log's signed head
+
 Offline, without signing in:
   $ localis estimate spec.json                    # core-hours and memory of a campaign spec
   $ localis tmm --dim 3 --width 6 --disorder 16.5 # Lambda = xi/L by the transfer-matrix kernel
@@ -38,7 +47,8 @@ Offline, without signing in:
 Environment:
   LOCALIS_URL         portal address; wins over the stored profile
   LOCALIS_TOKEN       API token; wins over the stored profile (for batch scripts)
-  LOCALIS_CONFIG_DIR  where credentials.json is kept (default ~/.config/localis)
+  LOCALIS_CONFIG_DIR  where credentials.json, unfinished uploads and the pinned log key
+                      are kept (default ~/.config/localis)
   LOCALIS_DEBUG       set to 1 to show where an unexpected error happened
 
 Exit codes: 0 ok, 1 failed, 2 usage error, 3 not signed in or token refused, 130 cancelled (Ctrl-C).`,
@@ -50,7 +60,18 @@ function inheritSettings(parent: Command, command: Command): Command {
   for (const sub of command.commands) inheritSettings(command, sub);
   return command;
 }
-for (const command of [loginCommand(), whoamiCommand(), logoutCommand(), runsCommand(), estimateCommand(), tmmCommand(), analyzeCommand()]) {
+for (const command of [
+  loginCommand(),
+  whoamiCommand(),
+  logoutCommand(),
+  runsCommand(),
+  packCommand(),
+  uploadCommand(),
+  verifyCommand(),
+  estimateCommand(),
+  tmmCommand(),
+  analyzeCommand(),
+]) {
   program.addCommand(inheritSettings(program, command));
 }
 
