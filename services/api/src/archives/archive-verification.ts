@@ -1,5 +1,5 @@
 import type { Readable } from 'node:stream';
-import { QueryTypes } from 'sequelize';
+import { QueryTypes, type Transaction } from 'sequelize';
 import type { ArchiveManifest, ArchiveProblem } from '@localis/shared';
 import { checkArchive, checkAttachment, type ArchiveSource } from '@localis/shared/node';
 import type { Database } from '../db';
@@ -30,6 +30,16 @@ function storedSource(store: ObjectStore, a: ArchiveRecord): ArchiveSource {
     sizeBytes: Number(a.sizeBytes),
     open: (range?: { start: number; end: number }): Promise<Readable> => store.read(a.objectKey, range),
   };
+}
+
+async function jobIdsOfRuns(db: Database, runIds: string[], tx: Transaction): Promise<Map<string, string>> {
+  if (!runIds.length) return new Map();
+  const rows = await db.sequelize.query<{ id: string; external_job_id: string }>('SELECT id, external_job_id FROM runs WHERE id = ANY(:ids::uuid[])', {
+    replacements: { ids: `{${runIds.join(',')}}` },
+    type: QueryTypes.SELECT,
+    transaction: tx,
+  });
+  return new Map(rows.map((r) => [r.id, r.external_job_id]));
 }
 
 async function runIdsOfCampaign(db: Database, campaignId: string): Promise<Set<string>> {
@@ -105,6 +115,7 @@ export function createArchiveVerifier(db: Database, store: ObjectStore) {
                 uploadedBy: full.uploadedByPersonId && uploadedByName ? { personId: full.uploadedByPersonId, name: uploadedByName } : null,
                 receivedAt: full.receivedAt!.toISOString(),
                 checkedAt: full.checkedAt!.toISOString(),
+                jobIdOfRun: await jobIdsOfRuns(db, full.manifest?.runIds ?? [], tx),
               }),
               subjectId: id,
             },

@@ -22,6 +22,8 @@ export const provId = {
   analysis: (id: string) => `localis:analysis/${id}`,
 };
 
+const runOutputLabel = (jobId: string) => `Output of job ${jobId}`;
+
 const personAgent = (p: { personId: string; name: string } | null): ProvAgent[] =>
   p ? [{ id: provId.person(p.personId), label: p.name, kind: 'person', attributes: {} }] : [];
 
@@ -55,7 +57,7 @@ export function runRecord(r: RunFacts): ProvenanceRecord {
     campaignId: r.campaignId,
     at: r.at,
     entities: [
-      { id: output, label: `Output of job ${r.externalJobId}`, attributes: {} },
+      { id: output, label: runOutputLabel(r.externalJobId), attributes: {} },
       { id: grant, label: `Grant of "${r.campaignTitle}"`, attributes: {} },
     ],
     activities: [
@@ -115,6 +117,8 @@ export interface ArchiveFacts {
   uploadedBy: { personId: string; name: string } | null;
   receivedAt: string;
   checkedAt: string;
+  /** Job ids of the archive's runs, so their outputs carry the same label as in the runs' own records. */
+  jobIdOfRun: ReadonlyMap<string, string>;
 }
 
 export function archiveRecord(a: ArchiveFacts): ProvenanceRecord {
@@ -135,7 +139,7 @@ export function archiveRecord(a: ArchiveFacts): ProvenanceRecord {
         label: a.fileName,
         attributes: { sha256: a.sha256, sizeBytes: a.sizeBytes, format: a.format, kind: a.kind, ...(m ? { machine: m.machine, sizes: m.parameters.sizes.join(' '), realizations: m.parameters.realizations } : {}) },
       },
-      ...runIds.map((id) => ({ id: provId.runOutput(id), label: `Run output ${id.slice(0, 8)}`, attributes: {} })),
+      ...runIds.map((id) => ({ id: provId.runOutput(id), label: runOutputLabel(a.jobIdOfRun.get(id) ?? id.slice(0, 8)), attributes: {} })),
     ],
     activities: [{ id: upload, label: `Upload and check of ${a.fileName}`, startedAt: a.receivedAt, endedAt: a.checkedAt, attributes: {} }],
     agents: [...uploader, ...code],

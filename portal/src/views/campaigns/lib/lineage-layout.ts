@@ -64,6 +64,10 @@ export function drawLineage(layout: Pick<LineageLayout, 'nodes' | 'edges'>): Lin
     shortLabel: shorten(n.label),
   }));
   const byId = new Map(nodes.map((n) => [n.id, n]));
+  // Arrows that skip a column arc over the boxes between: the drawing needs room above its top row.
+  const columnOf = (id: string) => Math.round((byId.get(id)!.x - PAD) / (NODE_WIDTH + COLUMN_GAP));
+  const longest = Math.max(0, ...layout.edges.filter((e) => byId.has(e.from) && byId.has(e.to)).map((e) => Math.abs(columnOf(e.from) - columnOf(e.to))));
+  if (longest > 1) for (const n of nodes) n.y += arcRise(longest) + 14;
   const edges = layout.edges.flatMap((e) => {
     const from = byId.get(e.from);
     const to = byId.get(e.to);
@@ -82,8 +86,31 @@ function bezier(p0: number, p1: number, p2: number, p3: number, t: number): numb
   return u * u * u * p0 + 3 * u * u * t * p1 + 3 * u * t * t * p2 + t * t * t * p3;
 }
 
-/** A curve from side to side of two boxes; within one column it bows out to the right. */
+/** How far above the higher box an arrow skipping `span` columns arcs (longer arrows higher, so they do not overlap). */
+function arcRise(span: number): number {
+  return 14 + 16 * span;
+}
+
+/** An arrow over the boxes between two columns further apart than neighbours: top to top, its words at the crest. */
+function placeArc(edge: LineageEdge, from: DrawnNode, to: DrawnNode): DrawnEdge {
+  const span = Math.round(Math.abs(to.x - from.x) / (NODE_WIDTH + COLUMN_GAP));
+  const x1 = from.x + (from.x < to.x ? NODE_WIDTH * 0.75 : NODE_WIDTH * 0.25);
+  const x2 = to.x + (from.x < to.x ? NODE_WIDTH * 0.25 : NODE_WIDTH * 0.75);
+  const crest = Math.min(from.y, to.y) - arcRise(span);
+  // A cubic with both control points at `ctrl` peaks at 3/4 of the way from the ends to `ctrl`.
+  const ctrl = Math.min(from.y, to.y) + (crest - Math.min(from.y, to.y)) * (4 / 3);
+  return {
+    ...edge,
+    path: `M ${x1} ${from.y} C ${x1} ${ctrl}, ${x2} ${ctrl}, ${x2} ${to.y}`,
+    labelX: bezier(x1, x1, x2, x2, 0.5),
+    labelY: bezier(from.y, ctrl, ctrl, to.y, 0.5),
+    words: relationWords(edge.relation),
+  };
+}
+
+/** A curve from side to side of two boxes; within one column it bows out to the right; over a column, it arcs. */
 function placeEdge(edge: LineageEdge, from: DrawnNode, to: DrawnNode): DrawnEdge {
+  if (Math.abs(to.x - from.x) > NODE_WIDTH + COLUMN_GAP) return placeArc(edge, from, to);
   const fromMid = from.y + NODE_HEIGHT / 2;
   const toMid = to.y + NODE_HEIGHT / 2;
   let x1: number;

@@ -17,7 +17,7 @@ export function archiveFixture(overrides: Partial<Archive> = {}): Archive {
     sizeBytes: 3 * 1024 ** 3,
     partSizeBytes: 8 * 1024 ** 2,
     partCount: 384,
-    declaredSha256: null,
+    declaredSha256: '5e'.repeat(32),
     state: 'verified',
     problems: [],
     runIds: [],
