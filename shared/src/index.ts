@@ -19,3 +19,4 @@ export * from './runs';
 export * from './notifications';
 export * from './archives';
 export * from './provenance';
+export * from './analyses';

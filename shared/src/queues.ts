@@ -5,10 +5,12 @@ export const QUEUES = {
   dailySweep: 'localis-daily-sweep',
   /** Checks an uploaded archive and records it in the provenance log. */
   verifyArchive: 'localis-verify-archive',
+  /** Finite-size scaling analyses of a campaign's verified archives. */
+  analyze: 'localis-analyze',
   /** Gives new provenance entries their leaf indexes and signs a new tree head. */
   sequenceProvenance: 'localis-sequence-provenance',
 } as const;
 export type QueueName = (typeof QUEUES)[keyof typeof QUEUES];
 
 /** Kinds of outbox messages the dispatcher hands to the queues. */
-export const OUTBOX_KINDS = { mail: 'mail', verifyArchive: 'verify-archive' } as const;
+export const OUTBOX_KINDS = { mail: 'mail', verifyArchive: 'verify-archive', analyze: 'analyze' } as const;

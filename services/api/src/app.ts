@@ -35,6 +35,7 @@ import { ledgerRoutes } from './ledger/ledger.router';
 import { runsRoutes } from './runs/runs.router';
 import { archivesRoutes } from './archives/archives.router';
 import { provenanceRoutes } from './provenance/provenance.router';
+import { analysesRoutes } from './analyses/analyses.router';
 import { notificationsRoutes } from './notifications/notifications.router';
 import { idempotency } from './http/idempotency';
 
@@ -68,6 +69,7 @@ export function buildRoutes(deps: AppDeps, authController: ReturnType<typeof cre
     ...notificationsRoutes(services.notifications),
     ...archivesRoutes(services.archives),
     ...provenanceRoutes(services.provenance, services.archives.verifiedIdBySha256),
+    ...analysesRoutes(services.analyses),
   ];
   let openapi: unknown;
   routes.push({

@@ -14,6 +14,7 @@ import { createNotificationsService } from './notifications/notifications.servic
 import { createArchivesService } from './archives/archives.service';
 import { createObjectStore } from './archives/object-store';
 import { createProvenanceService } from './provenance/provenance.service';
+import { createAnalysesService } from './analyses/analyses.service';
 
 /** The composition root of the rules: seeds, the api and the worker all go through these. */
 export function createServices(db: Database, s: Settings) {
@@ -35,6 +36,7 @@ export function createServices(db: Database, s: Settings) {
     objectStore,
     archives: createArchivesService(db, objectStore, campaigns),
     provenance: createProvenanceService(db, s, campaigns),
+    analyses: createAnalysesService(db, campaigns),
   };
 }
 export type Services = ReturnType<typeof createServices>;

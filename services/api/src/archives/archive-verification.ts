@@ -6,6 +6,7 @@ import type { Database } from '../db';
 import { campaignsRepository } from '../campaigns/campaigns.repository';
 import { appendProvenance } from '../provenance/provenance.service';
 import { archiveRecord } from '../provenance/provenance-records';
+import { queueAutomaticAnalysis } from '../analyses/analyses.service';
 import { archivesRepository, type ArchiveRecord } from './archives.repository';
 import type { ObjectStore } from './object-store';
 
@@ -122,6 +123,8 @@ export function createArchiveVerifier(db: Database, store: ObjectStore) {
           ],
           tx,
         );
+        // The campaign's analysis takes the new archive in (all verified archives together).
+        if (full.kind === 'results') await queueAutomaticAnalysis(full.campaignId, tx);
       }
       return state;
     });

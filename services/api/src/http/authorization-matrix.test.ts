@@ -74,6 +74,7 @@ beforeAll(async () => {
     },
     scratch: {},
     uploadingArchiveId: (await t.services.archives.create(as(pi), grantedId, { kind: 'results', fileName: 'matrix-read.tar.gz', sizeBytes: 20_000_000, runIds: [] })).archive.id,
+    analysisId: (await t.services.analyses.request(as(pi), grantedId, { bootstrap: 0 })).id,
     freshUploadingArchive: async () => (await t.services.archives.create(as(pi), grantedId, { kind: 'results', fileName: 'matrix-cancel.tar.gz', sizeBytes: 20_000_000, runIds: [] })).archive.id,
     latestTreeSize: async () => (await t.services.provenance.latestHead()).treeSize,
     roundId: round.id,

@@ -40,6 +40,8 @@ export interface Fixtures {
   freshRun(): Promise<string>;
   /** An archive of the granted campaign, still uploading (no parts sent), that rows read. */
   uploadingArchiveId: string;
+  /** An analysis of the granted campaign (queued), that rows read. */
+  analysisId: string;
   /** A new archive of the granted campaign, uploading. */
   freshUploadingArchive(): Promise<string>;
   /** The size of the provenance log's latest signed head (a head that exists). */
@@ -264,6 +266,10 @@ export const MATRIX: MatrixRow[] = [
     method: 'POST', route: '/api/v1/archives/:id/withdraw', path: (f) => `/api/v1/archives/${f.uploadingArchiveId}/withdraw`,
     body: () => ({ reason: 'withdrawn by the authorization matrix' }), expect: { ...only(409, ['pi', 'admin']), otherGroupPi: 404 },
   },
+
+  { method: 'GET', route: '/api/v1/campaigns/:id/analyses', path: (f) => `/api/v1/campaigns/${f.grantedId}/analyses`, expect: groupReaders },
+  { method: 'GET', route: '/api/v1/analyses/:id', path: (f) => `/api/v1/analyses/${f.analysisId}`, expect: groupReaders },
+  { method: 'POST', route: '/api/v1/campaigns/:id/analyses', path: (f) => `/api/v1/campaigns/${f.grantedId}/analyses`, body: () => ({ bootstrap: 0 }), expect: groupRecorders(202) },
 
   { method: 'GET', route: '/api/v1/provenance/head', path: fixed('/api/v1/provenance/head'), expect: signedIn(200) },
   { method: 'GET', route: '/api/v1/provenance/key', path: fixed('/api/v1/provenance/key'), expect: signedIn(200) },

@@ -169,3 +169,39 @@ export function withdrawalRecord(a: { id: string; campaignId: string; fileName: 
     wasAssociatedWith: person.map((p) => ({ activity: withdrawal, agent: p.id, role: 'withdrawn-by' })),
   };
 }
+
+export interface AnalysisFacts {
+  id: string;
+  campaignId: string;
+  archives: { id: string; fileName: string }[];
+  result: { Wc: { value: number }; nu: { value: number }; p: number; model: { observable: string; sizes: number[] } };
+  code: { name: string; version: string };
+  requestedBy: { personId: string; name: string } | null;
+  startedAt: string;
+  at: string;
+}
+
+/** A scaling analysis: derived from the archives it read, by the analysis code, for whoever asked. */
+export function analysisRecord(a: AnalysisFacts): ProvenanceRecord {
+  const analysis = provId.analysis(a.id);
+  const run = `localis:analysis-run/${a.id}`;
+  const code: ProvAgent = { id: provId.code(a.code.name, a.code.version), label: `${a.code.name} ${a.code.version}`, kind: 'software', attributes: { name: a.code.name, version: a.code.version } };
+  const person = personAgent(a.requestedBy);
+  const r = a.result;
+  return {
+    v: 1,
+    kind: 'analysis-computed',
+    campaignId: a.campaignId,
+    at: a.at,
+    entities: [
+      { id: analysis, label: `Scaling analysis (W_c = ${r.Wc.value.toPrecision(4)}, nu = ${r.nu.value.toPrecision(3)})`, attributes: { Wc: r.Wc.value, nu: r.nu.value, p: r.p, observable: r.model.observable, sizes: r.model.sizes.join(' ') } },
+      ...a.archives.map((x) => ({ id: provId.archive(x.id), label: x.fileName, attributes: {} })),
+    ],
+    activities: [{ id: run, label: 'Finite-size scaling fit', startedAt: a.startedAt, endedAt: a.at, attributes: {} }],
+    agents: [code, ...person],
+    used: a.archives.map((x) => ({ activity: run, entity: provId.archive(x.id) })),
+    wasGeneratedBy: [{ entity: analysis, activity: run }],
+    wasAssociatedWith: [{ activity: run, agent: code.id, role: 'code' }, ...person.map((p) => ({ activity: run, agent: p.id, role: 'requested-by' }))],
+    wasDerivedFrom: a.archives.map((x) => ({ generated: analysis, used: provId.archive(x.id) })),
+  };
+}

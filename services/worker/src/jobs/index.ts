@@ -2,8 +2,9 @@ import { mailJob } from './mail.job';
 import { dailySweepJob } from './daily-sweep.job';
 import { verifyArchiveJob } from './verify-archive.job';
 import { sequenceProvenanceJob } from './sequence-provenance.job';
+import { analyzeJob } from './analyze.job';
 import type { JobDefinition } from './job';
 
 /** Every job the worker runs; one BullMQ queue each. */
-export const JOBS: JobDefinition[] = [mailJob as JobDefinition, dailySweepJob as JobDefinition, verifyArchiveJob as JobDefinition, sequenceProvenanceJob as JobDefinition];
+export const JOBS: JobDefinition[] = [mailJob as JobDefinition, dailySweepJob as JobDefinition, verifyArchiveJob as JobDefinition, sequenceProvenanceJob as JobDefinition, analyzeJob as JobDefinition];
 export type { JobDefinition, JobDeps } from './job';

@@ -2,6 +2,7 @@ import { createHash, type Hash } from 'node:crypto';
 import type { ArchiveLimits } from '../archive.schema';
 import { isTableName, MANIFEST_NAME, normalizeEntryName, unsafeNameReason } from './entry-names';
 import { HashThread } from './hash-thread';
+import { FileRangeHasher } from './range-hasher';
 import { NumericTableReader, type TablePoint, type TableSummary } from './numeric-table';
 import type { ProblemList } from './problem-list';
 import type { SpecBounds } from './spec-bounds';
@@ -40,6 +41,8 @@ export interface InspectorOptions {
   problems: ProblemList;
   bounds?: SpecBounds;
   collectRows: number;
+  /** The archive is this file on this machine: large entries lying in it as they are get hashed from it. */
+  localPath?: string;
 }
 
 /**
@@ -57,6 +60,7 @@ export class ArchiveInspector {
   csvFiles = 0;
   manifest: Buffer | 'too-large' | null = null;
   private entryThread: HashThread | null = null;
+  private rangeHasher: FileRangeHasher | null = null;
   private readonly digests: Promise<void>[] = [];
 
   constructor(private readonly options: InspectorOptions) {}
@@ -66,9 +70,10 @@ export class ArchiveInspector {
     await Promise.all(this.digests);
   }
 
-  /** Stops the entry thread, if one was started. */
+  /** Stops the entry threads, if any were started. */
   close(): void {
     this.entryThread?.close();
+    this.rangeHasher?.close();
   }
 
   get problems(): ProblemList {
@@ -77,9 +82,10 @@ export class ArchiveInspector {
 
   /**
    * An entry's header is known: check it, and answer where its bytes go (null: skip them).
+   * `fileOffset` is where its bytes lie in the local archive file, when they lie there as they are.
    * Throws StopReading when a limit is passed.
    */
-  beginEntry(rawName: string, kind: EntryKind, declaredSize: number): EntrySink | null {
+  beginEntry(rawName: string, kind: EntryKind, declaredSize: number, fileOffset?: number): EntrySink | null {
     const { limits, problems } = this.options;
     this.entries++;
     if (this.entries > limits.maxEntries) {
@@ -114,7 +120,7 @@ export class ArchiveInspector {
     }
     this.unpackedBytes += declaredSize;
     this.files.set(name, { sizeBytes: -1, sha256: '' }); // taken, so a second entry of this name is a duplicate
-    return new EntrySink(this, name, declaredSize);
+    return new EntrySink(this, name, declaredSize, fileOffset);
   }
 
   /** A file accepted by beginEntry but then not read (say, encrypted): neither present nor missing. */
@@ -153,11 +159,23 @@ export class ArchiveInspector {
     });
   }
 
+  /** Whether a large entry at this offset of the local file would be hashed from the file. */
+  hashesFromFile(declaredSize: number): boolean {
+    return this.options.localPath !== undefined && declaredSize >= THREAD_HASH_FROM_BYTES;
+  }
+
   /** @internal The thread for large entries, started at the first one. */
   threadFor(declaredSize: number): HashThread | null {
     if (declaredSize < THREAD_HASH_FROM_BYTES) return null;
     this.entryThread ??= new HashThread();
     return this.entryThread;
+  }
+
+  /** @internal The thread hashing ranges of the local file, when this entry can be hashed so. */
+  rangeHasherFor(declaredSize: number, fileOffset: number | undefined): FileRangeHasher | null {
+    if (fileOffset === undefined || !this.hashesFromFile(declaredSize)) return null;
+    this.rangeHasher ??= new FileRangeHasher(this.options.localPath!);
+    return this.rangeHasher;
   }
 
   /** @internal */
@@ -181,8 +199,12 @@ export class ArchiveInspector {
   }
 }
 
-/** Where a regular file's bytes go: its hash, its size, and the table reader or the manifest buffer. */
+/**
+ * Where a regular file's bytes go: its hash (inline, on the entry thread, or from the local file by
+ * its range), its size, and the table reader or the manifest buffer.
+ */
 export class EntrySink {
+  private readonly ranges: FileRangeHasher | null;
   private readonly thread: HashThread | null;
   private readonly hash: Hash | null;
   private sizeBytes = 0;
@@ -194,9 +216,11 @@ export class EntrySink {
     private readonly inspector: ArchiveInspector,
     readonly name: string,
     declaredSize: number,
+    private readonly fileOffset?: number,
   ) {
-    this.thread = inspector.threadFor(declaredSize);
-    this.hash = this.thread ? null : createHash('sha256');
+    this.ranges = inspector.rangeHasherFor(declaredSize, fileOffset);
+    this.thread = this.ranges ? null : inspector.threadFor(declaredSize);
+    this.hash = this.ranges || this.thread ? null : createHash('sha256');
     this.table = isTableName(name) ? inspector.tableReader(name) : null;
     if (name === MANIFEST_NAME) {
       if (declaredSize > inspector.maxManifestBytes) this.manifestTooLarge = true;
@@ -217,20 +241,31 @@ export class EntrySink {
       }
     }
     if (this.thread) return this.thread.update(chunk);
-    this.hash!.update(chunk);
+    this.hash?.update(chunk);
+  }
+
+  /** False when nothing needs the bytes in this thread: hashed from the file, neither a table nor the manifest. */
+  get needsBytes(): boolean {
+    return !this.ranges || this.table !== null || this.manifestParts !== null || this.manifestTooLarge;
+  }
+
+  /** Ends an entry whose bytes were not read here (see needsBytes); its size is the one its container vouches for. */
+  endUnread(sizeBytes: number): void {
+    this.sizeBytes = sizeBytes;
+    this.end();
   }
 
   end(): void {
     const manifest = this.manifestTooLarge ? 'too-large' : this.manifestParts ? Buffer.concat(this.manifestParts) : null;
     const seen = { sizeBytes: this.sizeBytes, sha256: this.hash ? this.hash.digest('hex') : '' };
-    this.inspector.finishEntry(this.name, seen, this.thread?.endStream() ?? null, this.table?.end() ?? null, manifest);
+    const digest = this.ranges ? this.ranges.hash(this.fileOffset!, this.fileOffset! + this.sizeBytes) : (this.thread?.endStream() ?? null);
+    this.inspector.finishEntry(this.name, seen, digest, this.table?.end() ?? null, manifest);
   }
 }
 
 /** Control characters shown escaped: a name is quoted in messages people read. */
 function printable(name: string): string {
   const shown = name.length > 300 ? name.slice(0, 300) + '…' : name;
-  // eslint-disable-next-line no-control-regex
   return shown.replace(/[\u0000-\u001f\u007f]/g, (c) => `\\u${c.charCodeAt(0).toString(16).padStart(4, '0')}`);
 }
 

@@ -19,6 +19,8 @@ export interface ByteSource<F extends ArchiveFormat = ArchiveFormat> {
   format: F;
   sizeBytes: number;
   open(range?: ByteRange): Promise<NodeJS.ReadableStream | Readable>;
+  /** Set for a file on this machine: the whole-file hash then reads it on its own thread. */
+  localPath?: string;
 }
 
 export type ResultArchiveFormat = 'tar.gz' | 'tar' | 'zip';
@@ -39,6 +41,7 @@ export async function localFileSource<F extends ArchiveFormat = ArchiveFormat>(p
   return {
     format: resolved as F,
     sizeBytes: info.size,
+    localPath: path,
     async open(range) {
       const { start, end } = clampRange(range, info.size);
       if (end <= start) return Readable.from([]);

@@ -1,12 +1,16 @@
 import { randomBytes } from 'node:crypto';
 import { getEventListeners } from 'node:events';
+import { mkdtemp, rm, writeFile } from 'node:fs/promises';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
 import { Readable } from 'node:stream';
 import { beforeAll, describe, expect, it } from 'vitest';
 import type { ArchiveProblemCode } from '../archive.schema';
 import { buildArchive, FIXTURE_CAMPAIGN_ID, FIXTURE_RUN_IDS, FIXTURE_SPEC, goodArchive, goodEntries, sha256Hex, zerosTarGz, zerosZip, type FixtureEntry } from './archive-fixtures';
-import { bufferSource, type ArchiveSource, type ResultArchiveFormat } from './archive-source';
+import { bufferSource, localFileSource, type ArchiveSource, type ResultArchiveFormat } from './archive-source';
 import { THREAD_HASH_FROM_BYTES } from './archive-inspector';
 import { checkArchive, type ArchiveCheckResult, type CheckArchiveOptions } from './check-archive';
+import { INLINE_HASH_BELOW_BYTES } from './file-hasher';
 
 const FORMATS: ResultArchiveFormat[] = ['tar.gz', 'tar', 'zip'];
 const codes = (result: ArchiveCheckResult): ArchiveProblemCode[] => [...new Set(result.problems.map((p) => p.code))].sort();
@@ -306,6 +310,29 @@ describe('checkArchive: the upload and the campaign', () => {
   it('a PDF handed to the archive checker is the wrong type', async () => {
     const result = await checkArchive(bufferSource(Buffer.from('%PDF-1.7'), 'pdf'));
     expect(codes(result)).toEqual(['wrong-type']);
+  });
+});
+
+describe('checkArchive: a local file', () => {
+  it.each(['tar', 'zip'] as const)('%s larger than the inline limit: the file and its large entry are hashed from the file on threads', async (format) => {
+    const dir = await mkdtemp(join(tmpdir(), 'localis-check-'));
+    try {
+      const good = await goodArchive({ format, extraFiles: [{ name: 'raw/big.bin', content: randomBytes(INLINE_HASH_BELOW_BYTES + 1024) }] });
+      const path = join(dir, `results.${format}`);
+      await writeFile(path, good.archive);
+      const progress: [number, number][] = [];
+      const result = await checkArchive(await localFileSource(path), { expected: { sha256: good.sha256 }, onProgress: (read, total) => progress.push([read, total]) });
+      expect(result.problems).toEqual([]);
+      expect(result.sha256).toBe(good.sha256);
+      expect(progress.at(-1)).toEqual([good.archive.length, good.archive.length]);
+      // One changed byte inside the large entry (it fills most of the file).
+      const changed = Buffer.from(good.archive);
+      changed[changed.length >> 1] ^= 1;
+      await writeFile(path, changed);
+      expect(codes(await checkArchive(await localFileSource(path)))).toEqual(['file-checksum-mismatch']);
+    } finally {
+      await rm(dir, { recursive: true, force: true });
+    }
   });
 });
 

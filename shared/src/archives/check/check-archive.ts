@@ -58,8 +58,8 @@ export async function checkArchive(source: ArchiveSource | ByteSource, options: 
   }
   const archive = source as ArchiveSource;
   const bounds = campaign ? specBounds(campaign.spec) : undefined;
-  const inspector = new ArchiveInspector({ limits, problems, bounds, collectRows: Math.max(0, options.collectRows ?? 0) });
-  const hasher = createFileHasher(archive.sizeBytes);
+  const inspector = new ArchiveInspector({ limits, problems, bounds, collectRows: Math.max(0, options.collectRows ?? 0), localPath: archive.localPath });
+  const hasher = createFileHasher(archive);
   let sha256: string | null = null;
   let completed: boolean;
   let bytesRead: number;

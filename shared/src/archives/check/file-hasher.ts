@@ -1,8 +1,11 @@
 import { createHash } from 'node:crypto';
+import { Worker } from 'node:worker_threads';
 import { HashThread } from './hash-thread';
 
 /** SHA-256 of the whole stored file, computed beside the unpacking (see hash-thread.ts for why on a thread). */
 export interface FileHasher {
+  /** False when the hasher reads the file by itself: nothing need be read for it. */
+  readonly needsBytes: boolean;
   /** Hash these bytes next; the promise, when there is one, resolves once there is room for more. */
   update(chunk: Uint8Array): Promise<void> | void;
   /** The hex digest; no update after it. */
@@ -14,17 +17,25 @@ export interface FileHasher {
 /** Below this, hashing inline costs less than starting a thread. */
 export const INLINE_HASH_BELOW_BYTES = 16 * 1024 * 1024;
 
-export function createFileHasher(expectedBytes: number): FileHasher {
-  if (expectedBytes < INLINE_HASH_BELOW_BYTES) {
+/**
+ * Inline for a small file; for a large one on a thread, fed the bytes the check reads; for a large
+ * file on this machine, on a thread that reads the file by itself into one reused buffer (as
+ * `openssl dgst` does), so that the main thread copies nothing for it.
+ */
+export function createFileHasher(file: { sizeBytes: number; localPath?: string }): FileHasher {
+  if (file.sizeBytes < INLINE_HASH_BELOW_BYTES) {
     const hash = createHash('sha256');
     return {
+      needsBytes: true,
       update: (chunk) => void hash.update(chunk),
       digest: async () => hash.digest('hex'),
       close: () => undefined,
     };
   }
+  if (file.localPath) return localFileHasher(file.localPath, file.sizeBytes);
   const thread = new HashThread();
   return {
+    needsBytes: true,
     update: (chunk) => thread.update(chunk),
     digest: async () => {
       try {
@@ -34,5 +45,43 @@ export function createFileHasher(expectedBytes: number): FileHasher {
       }
     },
     close: () => thread.close(),
+  };
+}
+
+const LOCAL_WORKER_SOURCE = `
+const { parentPort, workerData } = require('node:worker_threads');
+const { openSync, readSync, closeSync } = require('node:fs');
+const hash = require('node:crypto').createHash('sha256');
+const buffer = Buffer.allocUnsafe(1024 * 1024);
+const fd = openSync(workerData.path, 'r');
+let left = workerData.sizeBytes;
+try {
+  for (let read; left > 0 && (read = readSync(fd, buffer, 0, Math.min(buffer.length, left), null)) > 0; left -= read) hash.update(buffer.subarray(0, read));
+} finally {
+  closeSync(fd);
+}
+parentPort.postMessage({ hex: hash.digest('hex'), short: left > 0 });
+`;
+
+/** The first `sizeBytes` bytes of a local file (the size the check was started with), read on a thread. */
+function localFileHasher(path: string, sizeBytes: number): FileHasher {
+  const worker = new Worker(LOCAL_WORKER_SOURCE, { eval: true, workerData: { path, sizeBytes } });
+  const result = new Promise<string>((resolve, reject) => {
+    worker.once('message', ({ hex, short }: { hex: string; short: boolean }) => (short ? reject(new Error(`${path} became shorter while it was checked`)) : resolve(hex)));
+    worker.once('error', reject);
+    worker.once('exit', (code) => reject(new Error(`the hashing thread stopped (exit code ${code})`)));
+  });
+  result.catch(() => undefined); // read by digest(); not an unhandled rejection when the check stops early
+  return {
+    needsBytes: false,
+    update: () => undefined,
+    digest: async () => {
+      try {
+        return await result;
+      } finally {
+        void worker.terminate();
+      }
+    },
+    close: () => void worker.terminate(),
   };
 }

@@ -43,10 +43,9 @@ export class HashThread {
   update(chunk: Uint8Array): Promise<void> | void {
     if (this.closed) return;
     const bytes = Buffer.isBuffer(chunk) ? chunk : Buffer.from(chunk.buffer, chunk.byteOffset, chunk.byteLength);
-    // The common case stays synchronous, without a promise per chunk: room in the slot being filled.
-    if (this.queued === 0 && this.filled + bytes.length < SLOT_BYTES && (this.filled > 0 || this.hasFreeSlot())) {
-      bytes.copy(this.slots, this.slotStart() + this.filled);
-      this.filled += bytes.length;
+    // The common case stays synchronous, without a promise per chunk: the ring has room for it all.
+    if (this.queued === 0 && bytes.length <= this.room_()) {
+      this.copyIn(bytes);
       return;
     }
     return this.enqueue(() => this.write(bytes));
@@ -86,20 +85,26 @@ export class HashThread {
     let at = 0;
     while (at < bytes.length && !this.closed) {
       if (this.filled === 0) await this.room();
-      const take = Math.min(SLOT_BYTES - this.filled, bytes.length - at);
-      bytes.copy(this.slots, this.slotStart() + this.filled, at, at + take);
+      at = this.copyIn(bytes, at, Math.min(bytes.length, at + this.room_()));
+    }
+  }
+
+  /** Bytes the ring can take now: the free slots, less what the slot being filled holds already. */
+  private room_(): number {
+    return (SLOT_COUNT - (this.published - Atomics.load(this.control, CONSUMED))) * SLOT_BYTES - this.filled;
+  }
+
+  /** Copies bytes[from, to) into the ring, publishing each slot it fills; they must fit. Returns `to`. */
+  private copyIn(bytes: Buffer, from = 0, to = bytes.length): number {
+    let at = from;
+    while (at < to) {
+      const take = Math.min(SLOT_BYTES - this.filled, to - at);
+      bytes.copy(this.slots, (this.published % SLOT_COUNT) * SLOT_BYTES + this.filled, at, at + take);
       this.filled += take;
       at += take;
       if (this.filled === SLOT_BYTES) this.publish(false);
     }
-  }
-
-  private slotStart(): number {
-    return (this.published % SLOT_COUNT) * SLOT_BYTES;
-  }
-
-  private hasFreeSlot(): boolean {
-    return this.published - Atomics.load(this.control, CONSUMED) < SLOT_COUNT;
+    return to;
   }
 
   private publish(endOfStream: boolean): void {
@@ -116,13 +121,18 @@ export class HashThread {
     }
   }
 
-  /** Resolves when the slot to fill next is free (the worker has hashed the one SLOT_COUNT earlier). */
+  /**
+   * Resolves when the slot to fill next is free. When the ring is full it waits until half of it is
+   * free, so that the worker wakes the main thread once per half ring rather than once per slot.
+   */
   private async room(): Promise<void> {
     const { control } = this;
+    if (this.published - Atomics.load(control, CONSUMED) < SLOT_COUNT) return;
+    const wanted = this.published - SLOT_COUNT / 2; // the consumed count to wait for
     while (!this.closed && this.failure === null) {
-      Atomics.store(control, MAIN_WAITS, 1);
+      Atomics.store(control, MAIN_WAITS, wanted);
       const consumed = Atomics.load(control, CONSUMED);
-      if (this.published - consumed < SLOT_COUNT) break;
+      if (consumed >= wanted) break;
       if (waitAsync) {
         const wait = waitAsync(control, CONSUMED, consumed, 1000);
         if (wait.async) await wait.value;
@@ -144,7 +154,7 @@ const PUBLISHED = 0; // slots published by the main thread (a running count)
 const CONSUMED = 1; // slots hashed by the worker (a running count)
 const GENERATION = 2; // bumped at every publish; the worker sleeps on it
 const WORKER_SLEEPS = 3;
-const MAIN_WAITS = 4;
+const MAIN_WAITS = 4; // the consumed count the main thread waits for (0: it does not wait)
 const CONTROL_WORDS = 8;
 
 type WaitAsync = (typed: Int32Array, index: number, value: number, timeout?: number) => { async: boolean; value: Promise<string> | string };
@@ -173,7 +183,8 @@ for (;;) {
   const endOfStream = control[CONTROL_WORDS + SLOT_COUNT + slot] === 1;
   consumed++;
   Atomics.store(control, ${CONSUMED}, consumed);
-  if (Atomics.load(control, ${MAIN_WAITS}) === 1) Atomics.notify(control, ${CONSUMED});
+  const wanted = Atomics.load(control, ${MAIN_WAITS});
+  if (wanted !== 0 && consumed >= wanted) Atomics.notify(control, ${CONSUMED});
   if (endOfStream) {
     parentPort.postMessage(hash.digest('hex'));
     hash = createHash('sha256');

@@ -21,6 +21,7 @@ export async function readTar(source: ArchiveSource, context: WalkContext): Prom
   let bytesRead = 0;
   let inflated = 0;
   let input: Readable | null = null;
+  const dataInFile = source.format === 'tar' && source.localPath !== undefined;
 
   halt.signal.addEventListener('abort', () => {
     input?.destroy();
@@ -38,7 +39,9 @@ export async function readTar(source: ArchiveSource, context: WalkContext): Prom
     if (halt.halted) return;
     let sink;
     try {
-      sink = inspector.beginEntry(header.name, kindOf(header.type), header.size ?? 0);
+      // In a plain tar on this machine an entry's bytes lie in the file as they are, right after its header.
+      const fileOffset = dataInFile ? (header as Header & { byteOffset?: number }).byteOffset : undefined;
+      sink = inspector.beginEntry(header.name, kindOf(header.type), header.size ?? 0, fileOffset);
     } catch (error) {
       halt.fail(error, 'the archive is not a readable tar');
       return;

@@ -18,7 +18,10 @@ export async function readZip(source: ArchiveSource, context: WalkContext): Prom
   const halt = new Halt(context.signal);
   const reader = new SourceRangeReader(source);
   halt.signal.addEventListener('abort', () => reader.stopAll());
-  const [bytesRead] = await Promise.all([hashWholeFile(source, context, halt), readEntries(source, reader, context, halt)]);
+  // A hasher that reads the (local) file by itself needs no sequential pass here; progress then
+  // follows the entries.
+  const sequential = context.hasher.needsBytes;
+  const [bytesRead] = await Promise.all([sequential ? hashWholeFile(source, context, halt) : Promise.resolve(source.sizeBytes), readEntries(source, reader, context, halt, !sequential)]);
   const completed = halt.settle(context.inspector);
   if (completed) context.onProgress?.(bytesRead, source.sizeBytes);
   return { completed, bytesRead };
@@ -48,8 +51,9 @@ async function hashWholeFile(source: ArchiveSource, context: WalkContext, halt: 
   return bytesRead;
 }
 
-async function readEntries(source: ArchiveSource, reader: SourceRangeReader, context: WalkContext, halt: Halt): Promise<void> {
+async function readEntries(source: ArchiveSource, reader: SourceRangeReader, context: WalkContext, halt: Halt, reportProgress: boolean): Promise<void> {
   const { inspector } = context;
+  const progress = progressReporter(source.sizeBytes, reportProgress ? context.onProgress : undefined);
   const what = 'the archive is not a readable zip';
   let zip: yauzl.ZipFile;
   try {
@@ -83,11 +87,20 @@ async function readEntries(source: ArchiveSource, reader: SourceRangeReader, con
         // Entries may share their data (overlapping entries), so the packed side is at most the file.
         inspector.checkRatio(unpacked, Math.min(packed, source.sizeBytes));
       }
-      const sink = inspector.beginEntry(name, kind, entry.uncompressedSize);
+      // A large stored entry of a zip on this machine lies in the file as it is: hashed from there.
+      const stored = kind === 'file' && entry.compressionMethod === 0 && !entry.isEncrypted();
+      const fileOffset = stored && inspector.hashesFromFile(entry.uncompressedSize) ? (await zip.readLocalFileHeaderPromise(entry, { minimal: true })).fileDataStart : undefined;
+      const sink = inspector.beginEntry(name, kind, entry.uncompressedSize, fileOffset);
       if (!sink) continue;
       if (entry.isEncrypted() || (entry.compressionMethod !== 0 && entry.compressionMethod !== 8)) {
         inspector.dropEntry(sink.name);
         inspector.problems.add('unreadable', `"${sink.name}" ${entry.isEncrypted() ? 'is encrypted' : `uses compression method ${entry.compressionMethod}; only stored (0) and deflate (8) are read`}`, sink.name);
+        continue;
+      }
+      if (!sink.needsBytes) {
+        // Stored: its size is its compressed size, checked against the file's bounds by yauzl.
+        sink.endUnread(entry.uncompressedSize);
+        progress.report(Math.min(packed, source.sizeBytes));
         continue;
       }
       current = await zip.openReadStreamPromise(entry);
@@ -100,6 +113,7 @@ async function readEntries(source: ArchiveSource, reader: SourceRangeReader, con
       current = null;
       if (halt.halted) break;
       sink.end();
+      progress.report(Math.min(packed, source.sizeBytes));
     }
   } catch (error) {
     if (!halt.halted) halt.fail(error, what);

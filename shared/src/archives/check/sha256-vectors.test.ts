@@ -54,7 +54,7 @@ describe('SHA-256 against the FIPS 180-4 examples', () => {
   it('the whole-file hasher on its thread waits for room and agrees with crypto over more bytes than its ring holds', async () => {
     const bytes = Buffer.alloc(INLINE_HASH_BELOW_BYTES + 5 * 1024 * 1024);
     for (let i = 0; i < bytes.length; i += 4096) bytes.writeUInt32LE((i * 2654435761) >>> 0, i);
-    const hasher = createFileHasher(bytes.length);
+    const hasher = createFileHasher({ sizeBytes: bytes.length });
     for (let at = 0; at < bytes.length; at += 3 * 1024 * 1024 + 17) {
       const room = hasher.update(bytes.subarray(at, at + 3 * 1024 * 1024 + 17));
       if (room) await room;

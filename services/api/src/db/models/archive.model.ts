@@ -116,3 +116,43 @@ export class ProvenanceTreeHeadRow extends Model<InferAttributes<ProvenanceTreeH
     );
   }
 }
+
+/** A scaling analysis of a campaign's verified archives. */
+export class AnalysisRow extends Model<InferAttributes<AnalysisRow>, InferCreationAttributes<AnalysisRow>> {
+  declare id: CreationOptional<string>;
+  declare campaignId: string;
+  declare state: CreationOptional<'queued' | 'running' | 'done' | 'failed'>;
+  declare request: Record<string, unknown>;
+  declare progress: { done: number; total: number } | null;
+  declare archiveIds: string[];
+  declare points: CreationOptional<number>;
+  declare result: Record<string, unknown> | null;
+  declare error: string | null;
+  declare requestedByPersonId: string | null;
+  declare createdAt: CreationOptional<Date>;
+  declare updatedAt: CreationOptional<Date>;
+  declare startedAt: Date | null;
+  declare finishedAt: Date | null;
+
+  static initModel(sequelize: Sequelize) {
+    AnalysisRow.init(
+      {
+        id: { type: DataTypes.UUID, primaryKey: true, defaultValue: DataTypes.UUIDV4 },
+        campaignId: { type: DataTypes.UUID, allowNull: false },
+        state: { type: DataTypes.TEXT, allowNull: false, defaultValue: 'queued' },
+        request: { type: DataTypes.JSONB, allowNull: false },
+        progress: { type: DataTypes.JSONB, allowNull: true },
+        archiveIds: { type: DataTypes.ARRAY(DataTypes.UUID), allowNull: false, defaultValue: [] },
+        points: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 0 },
+        result: { type: DataTypes.JSONB, allowNull: true },
+        error: { type: DataTypes.TEXT, allowNull: true },
+        requestedByPersonId: { type: DataTypes.UUID, allowNull: true },
+        createdAt: DataTypes.DATE,
+        updatedAt: DataTypes.DATE,
+        startedAt: { type: DataTypes.DATE, allowNull: true },
+        finishedAt: { type: DataTypes.DATE, allowNull: true },
+      },
+      { sequelize, tableName: 'analyses' },
+    );
+  }
+}

@@ -11,9 +11,9 @@ import { Campaign, CampaignEvent } from './campaign.model';
 import { ReviewAssignment, Review } from './review.model';
 import { Run, LedgerEntry, UsageAlert } from './ledger.model';
 import { Notification, IdempotencyKey } from './notification.model';
-import { ArchiveRow, ProvenanceEntryRow, ProvenanceTreeHeadRow } from './archive.model';
+import { AnalysisRow, ArchiveRow, ProvenanceEntryRow, ProvenanceTreeHeadRow } from './archive.model';
 
-export { Institution, Person, ResearchGroup, GroupMembership, RoleGrant, ApiToken, AuditLog, OutboxMessage, Round, RoundPool, Campaign, CampaignEvent, ReviewAssignment, Review, Run, LedgerEntry, UsageAlert, Notification, IdempotencyKey, ArchiveRow, ProvenanceEntryRow, ProvenanceTreeHeadRow };
+export { Institution, Person, ResearchGroup, GroupMembership, RoleGrant, ApiToken, AuditLog, OutboxMessage, Round, RoundPool, Campaign, CampaignEvent, ReviewAssignment, Review, Run, LedgerEntry, UsageAlert, Notification, IdempotencyKey, ArchiveRow, ProvenanceEntryRow, ProvenanceTreeHeadRow, AnalysisRow };
 
 export interface Models {
   Institution: typeof Institution;
@@ -38,6 +38,7 @@ export interface Models {
   ArchiveRow: typeof ArchiveRow;
   ProvenanceEntryRow: typeof ProvenanceEntryRow;
   ProvenanceTreeHeadRow: typeof ProvenanceTreeHeadRow;
+  AnalysisRow: typeof AnalysisRow;
 }
 
 /**
@@ -67,6 +68,7 @@ export function initModels(sequelize: Sequelize): Models {
   ArchiveRow.initModel(sequelize);
   ProvenanceEntryRow.initModel(sequelize);
   ProvenanceTreeHeadRow.initModel(sequelize);
+  AnalysisRow.initModel(sequelize);
 
   Person.belongsTo(Institution, { foreignKey: 'institutionId', as: 'institution' });
   Person.hasMany(RoleGrant, { foreignKey: 'personId', as: 'roleGrants' });
@@ -91,5 +93,6 @@ export function initModels(sequelize: Sequelize): Models {
   LedgerEntry.belongsTo(Campaign, { foreignKey: 'counterpartCampaignId', as: 'counterpart' });
   ArchiveRow.belongsTo(Person, { foreignKey: 'uploadedByPersonId', as: 'uploadedBy' });
   ArchiveRow.belongsTo(Person, { foreignKey: 'withdrawnByPersonId', as: 'withdrawnBy' });
-  return { Institution, Person, ResearchGroup, GroupMembership, RoleGrant, ApiToken, AuditLog, OutboxMessage, Round, RoundPool, Campaign, CampaignEvent, ReviewAssignment, Review, Run, LedgerEntry, UsageAlert, Notification, IdempotencyKey, ArchiveRow, ProvenanceEntryRow, ProvenanceTreeHeadRow };
+  AnalysisRow.belongsTo(Person, { foreignKey: 'requestedByPersonId', as: 'requestedBy' });
+  return { Institution, Person, ResearchGroup, GroupMembership, RoleGrant, ApiToken, AuditLog, OutboxMessage, Round, RoundPool, Campaign, CampaignEvent, ReviewAssignment, Review, Run, LedgerEntry, UsageAlert, Notification, IdempotencyKey, ArchiveRow, ProvenanceEntryRow, ProvenanceTreeHeadRow, AnalysisRow };
 }
