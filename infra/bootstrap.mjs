@@ -1,5 +1,5 @@
 #!/usr/bin/env node
-// The first step of `npm start`, `npm test`, `npm run dev` and `npm run stop`.
+// The first step of `npm start`, `npm test`, `npm run dev`, `npm run stop` and the benchmarks.
 // Plain JavaScript with no dependencies on purpose: it runs before node_modules exists, installs
 // what is missing (Debian packages, then `npm ci`), and hands over to the TypeScript orchestrator.
 import { spawnSync, spawn } from 'node:child_process';
@@ -10,7 +10,7 @@ import { fileURLToPath } from 'node:url';
 
 const root = join(dirname(fileURLToPath(import.meta.url)), '..');
 const mode = process.argv[2] ?? 'start';
-const MODES = ['start', 'test', 'dev', 'stop', 'bench'];
+const MODES = ['start', 'test', 'dev', 'stop', 'bench', 'bench-archives'];
 if (!MODES.includes(mode)) {
   console.error(`localis: unknown mode "${mode}"; use one of ${MODES.join(', ')}`);
   process.exit(2);
@@ -18,9 +18,11 @@ if (!MODES.includes(mode)) {
 
 /** A Debian package and the file that proves it is installed. */
 const PACKAGES = [
-  { pkg: 'postgresql-15', probe: '/usr/lib/postgresql/15/bin/initdb', modes: ['start', 'test', 'dev', 'bench'] },
-  { pkg: 'redis-server', probe: '/usr/bin/redis-server', modes: ['start', 'test', 'dev', 'bench'] },
+  { pkg: 'postgresql-15', probe: '/usr/lib/postgresql/15/bin/initdb', modes: ['start', 'test', 'dev', 'bench', 'bench-archives'] },
+  { pkg: 'redis-server', probe: '/usr/bin/redis-server', modes: ['start', 'test', 'dev', 'bench', 'bench-archives'] },
   { pkg: 'chromium', probe: '/usr/bin/chromium', modes: ['test'] },
+  // The archive benchmark times `openssl dgst -sha256` beside the worker's verification.
+  { pkg: 'openssl', probe: '/usr/bin/openssl', modes: ['bench-archives'] },
 ];
 
 function log(message) {

@@ -7,7 +7,7 @@ import { profileEnv, ROOT, settingsOf } from './profile';
 import { buildPortalIfStale, runOnce, startApplication, startInfrastructure, stopFromOutside, stopInfrastructure } from './stack';
 import { summarise } from './test-summary';
 
-type Mode = 'start' | 'dev' | 'test' | 'stop' | 'bench';
+type Mode = 'start' | 'dev' | 'test' | 'stop' | 'bench' | 'bench-archives';
 const mode = (process.argv[2] ?? 'start') as Mode;
 const extraArgs = process.argv.slice(3);
 const TSX = join(ROOT, 'node_modules', '.bin', 'tsx');
@@ -22,7 +22,7 @@ async function main(): Promise<number> {
     return 0;
   }
 
-  const env = profileEnv(mode);
+  const env = mode === 'bench-archives' ? benchArchivesEnv() : profileEnv(mode);
   env.PG_PASSWORD = databasePassword(settingsOf(env));
   const s = settingsOf(env);
   const runDir = join(s.DATA_DIR, 'run');
@@ -52,12 +52,18 @@ async function main(): Promise<number> {
   };
 
   try {
-    await step(() => startInfrastructure(s, env, group, { freshDatabase: mode === 'test' || mode === 'bench', fakes: mode !== 'bench' }));
+    await step(() => startInfrastructure(s, env, group, { freshDatabase: mode === 'test' || mode === 'bench' || mode === 'bench-archives', fakes: mode !== 'bench' }));
     if (mode === 'bench') {
       const bench = group.start('bench', TSX, [join(ROOT, 'infra', 'src', 'bench.ts'), ...extraArgs], env, { inheritOutput: true });
       return await step(() => bench.exited);
     }
     await step(() => runOnce('the demo scenario', 'seeds/src/load.cli.ts', [], env));
+    if (mode === 'bench-archives') {
+      // The api serves without the built portal, and the benchmark only talks to the api.
+      await step(() => startApplication(s, env, group, { watch: false }));
+      const bench = group.start('bench', TSX, [join(ROOT, 'infra', 'src', 'bench-archives.ts'), ...extraArgs], env, { inheritOutput: true });
+      return await step(() => bench.exited);
+    }
     if (mode === 'dev') {
       const apiPort = s.APP_PORT + 1;
       await step(() => startApplication(s, env, group, { watch: true, apiPort }));
@@ -91,6 +97,14 @@ async function main(): Promise<number> {
     await stopInfrastructure(s);
     rmSync(join(runDir, 'stack.pid'), { force: true });
   }
+}
+
+/**
+ * `npm run bench:archives`: the test profile's ports and data folder (so it never runs beside
+ * `npm test`, which shares the pid file), in the `localis_bench` database like `npm run bench`.
+ */
+function benchArchivesEnv(): Record<string, string> {
+  return { ...profileEnv('test'), PG_DATABASE: 'localis_bench' };
 }
 
 /** The pid of a live orchestrator of this profile, if one is running. */
