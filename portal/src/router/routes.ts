@@ -96,6 +96,13 @@ export const routes: RouteRecordRaw[] = [
     meta: { title: 'Archives', requiresAuth: true, roles: CAMPAIGN_READERS },
   },
   {
+    path: '/campaigns/:id/analysis',
+    name: 'campaign-analysis',
+    component: () => import('../views/campaigns/campaign-analysis-view.vue'),
+    props: true,
+    meta: { title: 'Analysis', requiresAuth: true, roles: CAMPAIGN_READERS },
+  },
+  {
     path: '/campaigns/:id/print',
     name: 'campaign-print',
     component: () => import('../views/campaigns/campaign-print-view.vue'),
