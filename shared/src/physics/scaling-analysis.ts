@@ -105,6 +105,8 @@ export interface ScalingAnalysis {
   beta: BetaPoint[];
   /** The points on the chosen model's scaling variable, irrelevant correction removed, with the fitted curve. */
   collapse: DataCollapse;
+  /** The measured points the fit used, as given (for plotting the observable against W). */
+  measured: ScalingPoint[];
   /** Things a reader should know before trusting the numbers, in words. */
   warnings: string[];
 }
@@ -316,6 +318,7 @@ export function* analysisSteps(points: readonly ScalingPoint[], options: Analyze
     crossingDrift: crossingDrift(crossings),
     beta: numericalBeta(table.points, labels),
     collapse: dataCollapse(table.points, fit),
+    measured: table.points.map((p) => ({ L: p.L, x: p.x, value: p.value, error: p.error })),
     warnings,
   };
 }

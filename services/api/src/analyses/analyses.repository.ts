@@ -51,6 +51,10 @@ export const analysesRepository = {
     return { archives: rows.map((r) => ({ id: r.id, fileName: r.fileName })), points: rows.flatMap((r) => (r.points ?? []) as StoredPoint[]) };
   },
 
+  async resolveRequest(id: string, request: AnalysisRequest): Promise<void> {
+    await AnalysisRow.update({ request }, { where: { id, state: 'running' } });
+  },
+
   /** A run that failed for want of the database hands the analysis back for the job's retry. */
   async requeue(id: string): Promise<void> {
     await AnalysisRow.update({ state: 'queued', progress: null }, { where: { id, state: 'running' } });

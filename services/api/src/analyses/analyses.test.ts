@@ -77,6 +77,9 @@ describe('scaling analyses of verified archives', () => {
     expect(Math.abs(r.nu.value - 1.57)).toBeLessThan(0.15);
     expect(r.model.sizes).toEqual(SIZES);
     expect(r.intervals.method).toBe('bootstrap');
+    // The measured points come back as given, and the energy "auto" chose is kept with the request.
+    expect(r.measured).toHaveLength(SIZES.length * WS.length);
+    expect(done.request).toMatchObject({ observable: 'lambda', energy: 0 });
   });
 
   it('should record the analysis in the provenance log, derived from the archive', async () => {

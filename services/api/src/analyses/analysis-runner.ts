@@ -82,6 +82,8 @@ export function createAnalysisRunner(db: Database) {
       const { archives, points } = await analysesRepository.pointsOfCampaign(a.campaignId);
       const request = a.request as AnalysisRequest;
       const table = tableOf(points, request);
+      // What "auto" came to is kept with the analysis, so the page can say which energy was fitted.
+      await analysesRepository.resolveRequest(analysisId, { ...request, observable: table.observable, ...(table.energy === undefined ? {} : { energy: table.energy }) });
       if (!table.points.length) {
         return finish(analysisId, { error: `No ${table.observable === 'lambda' ? 'Lambda' : 'g'} points${table.energy === undefined ? '' : ` at E = ${table.energy}`} in the campaign's verified archives${request.sizes ? ` for L = ${request.sizes.join(', ')}` : ''}.`, archives, points: 0 });
       }

@@ -5,7 +5,7 @@ import type { ComposeOption, EChartsCoreOption } from 'echarts/core';
 import type { EChartInk } from '../../../composables/use-echart';
 import { seriesColor } from '../../../theme/chart-palette';
 import { formatInterval, formatSignificant, observableSymbol } from './analysis-format';
-import { correctedPoints } from './analysis-tables';
+import { measuredPoints } from './analysis-tables';
 
 /**
  * The analysis page's three charts as ECharts options, built from the result alone (pure, so they
@@ -131,7 +131,7 @@ function bySize<T extends { L: number }>(points: readonly T[]): [number, T[]][] 
 export function pointsChartOption(result: ScalingAnalysis, ink: ChartInk): EChartsCoreOption {
   const v = result.model.variable;
   const symbol = observableSymbol(result.model.observable);
-  const groups = bySize(result.collapse.points);
+  const groups = bySize(measuredPoints(result));
   const series: Option['series'] = [];
   groups.forEach(([L, points], i) => {
     const color = seriesColor(i, ink.dark);
@@ -212,7 +212,7 @@ export function collapseChartOption(result: ScalingAnalysis, ink: ChartInk): ECh
     z: 4,
   });
   const legend = groups.length + 1;
-  const yName = correctedPoints(result) ? `${symbol} (corrected)` : symbol;
+  const yName = result.model.ni > 0 ? `${symbol} (corrected)` : symbol;
   return responsive({ ...frame(ink, legend), ...axes(ink, 'ψ', yName), series }, legend);
 }
 

@@ -187,15 +187,15 @@ function signed(value: Cell, decimals: number): string {
 }
 
 /**
- * The points the fit used, by size: the chart of the observable against W. They come from the
- * collapse, which carries each point's L, W and error; with an irrelevant correction in the model
- * (ni > 0) the values are the corrected ones, and `correctedPoints` says so.
+ * The points the fit used, by size: the chart of the observable against W. They are the measured
+ * ones; an analysis stored before results carried them falls back on the collapse, whose values
+ * are corrected when the model has an irrelevant term (`correctedPoints` says so).
  */
 export function pointsTable(result: ScalingAnalysis): AnalysisTable {
   const v = result.model.variable;
   const o = observableKey(result.model.observable);
   const symbol = observableSymbol(result.model.observable);
-  const points = [...result.collapse.points].sort((a, b) => a.L - b.L || a.x - b.x);
+  const points = [...measuredPoints(result)].sort((a, b) => a.L - b.L || a.x - b.x);
   const decimals = decimalsOfErrors(points.map((p) => p.error));
   return {
     id: 'points',
@@ -210,9 +210,14 @@ export function pointsTable(result: ScalingAnalysis): AnalysisTable {
   };
 }
 
+/** The measured points, or the collapse's for a result stored without them. */
+export function measuredPoints(result: ScalingAnalysis): { L: number; x: number; value: number; error: number }[] {
+  return result.measured ?? result.collapse.points;
+}
+
 /** True when the points shown against W are not the measured ones but corrected for the irrelevant term. */
 export function correctedPoints(result: ScalingAnalysis): boolean {
-  return result.model.ni > 0;
+  return !result.measured && result.model.ni > 0;
 }
 
 /** The collapse: each point on the scaling variable psi = chi_r(w) L^(1/nu). */
