@@ -7,7 +7,7 @@ import type { Archive, ArchiveUpload, Campaign, Run, RunInput, StoredParts } fro
 import { goodArchive } from '@localis/shared/node';
 import type { Page, Request, Route } from 'playwright-core';
 import { CAMPAIGNS } from '../../seeds/src/campaigns-scenario';
-import { DEFAULT_VIEWPORT, demoPerson, eventually, portalUrl, PUBLIC_URL, screenshot, signIn, useBrowser } from './browser';
+import { DEFAULT_VIEWPORT, demoPerson, eventually, portalUrl, PUBLIC_URL, screenshot, signIn, useBrowser, callApi } from './browser';
 
 /** A member of the Quantum Transport group, which records runs on its granted campaign. */
 const PRIYA = demoPerson('priya.raman@kestrel.example');
@@ -22,23 +22,6 @@ const SHOTS_COPY_DIR = process.env.ARCHIVES_SHOTS_DIR;
 
 const stamp = () => `${Date.now().toString(36)}-${randomBytes(3).toString('hex')}`;
 
-/** Calls the api with the browser's session, as the portal does (CSRF token from the session answer). */
-async function callApi<T>(page: Page, method: 'POST' | 'GET', path: string, body?: unknown): Promise<T> {
-  return page.evaluate(
-    async ({ method, path, body }) => {
-      const session = (await fetch('/api/v1/session').then((r) => r.json())) as { csrfToken: string };
-      const res = await fetch(`/api/v1${path}`, {
-        method,
-        headers: { 'content-type': 'application/json', 'x-csrf-token': session.csrfToken },
-        body: body === undefined ? undefined : JSON.stringify(body),
-      });
-      const text = await res.text();
-      if (!res.ok) throw new Error(`${method} ${path} answered ${res.status}: ${text}`);
-      return (text ? JSON.parse(text) : null) as T;
-    },
-    { method, path, body },
-  );
-}
 
 /** A presigned part upload to the object store (S3 UploadPart: `?partNumber=…&uploadId=…`), wherever the store lives. */
 function partNumberOf(request: Request): number | null {

@@ -291,3 +291,24 @@ export async function eventually<T>(what: string, check: () => Promise<T | undef
   }
   throw new Error(`${what} did not happen within ${timeoutMs} ms${lastError ? `: ${String(lastError)}` : ''}`);
 }
+
+/**
+ * Calls the api with the browser's session, as the portal does (CSRF token from the session
+ * answer). Used to prepare data that another test already covers through the screens.
+ */
+export async function callApi<T>(page: Page, method: 'POST' | 'GET', path: string, body?: unknown): Promise<T> {
+  return page.evaluate(
+    async ({ method, path, body }) => {
+      const session = (await fetch('/api/v1/session').then((r) => r.json())) as { csrfToken: string };
+      const res = await fetch(`/api/v1${path}`, {
+        method,
+        headers: { 'content-type': 'application/json', 'x-csrf-token': session.csrfToken },
+        body: body === undefined ? undefined : JSON.stringify(body),
+      });
+      const text = await res.text();
+      if (!res.ok) throw new Error(`${method} ${path} answered ${res.status}: ${text}`);
+      return (text ? JSON.parse(text) : null) as T;
+    },
+    { method, path, body },
+  );
+}

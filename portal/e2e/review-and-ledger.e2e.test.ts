@@ -5,7 +5,7 @@ import type { Campaign, NotificationPage } from '@localis/shared';
 import type { Locator, Page } from 'playwright-core';
 import { GROUPS } from '@localis/seeds/scenario';
 import { CAMPAIGNS, OPEN_ROUND } from '../../seeds/src/campaigns-scenario';
-import { demoPerson, portalUrl, screenshot, signIn, tableSettled, useBrowser } from './browser';
+import { demoPerson, portalUrl, screenshot, signIn, tableSettled, useBrowser, callApi } from './browser';
 
 const ADMIN = demoPerson('dana.whitfield@coldwater-network.example');
 const TOBIAS = demoPerson('tobias.wendt@brennmoor.example');
@@ -24,26 +24,6 @@ const SCHEDULER_EXPORT = fileURLToPath(new URL('../../seeds/data/scheduler-expor
 /** A run of the test on the same database must not meet the records of an earlier one. */
 const stamp = () => Date.now().toString(36);
 
-/**
- * Calls the api with the browser's session, as the portal does (CSRF token from the session
- * answer). Used to prepare data that another test already covers through the screens.
- */
-async function callApi<T>(page: Page, method: 'POST' | 'GET', path: string, body?: unknown): Promise<T> {
-  return page.evaluate(
-    async ({ method, path, body }) => {
-      const session = (await fetch('/api/v1/session').then((r) => r.json())) as { csrfToken: string };
-      const res = await fetch(`/api/v1${path}`, {
-        method,
-        headers: { 'content-type': 'application/json', 'x-csrf-token': session.csrfToken },
-        body: body === undefined ? undefined : JSON.stringify(body),
-      });
-      const text = await res.text();
-      if (!res.ok) throw new Error(`${method} ${path} answered ${res.status}: ${text}`);
-      return (text ? JSON.parse(text) : null) as T;
-    },
-    { method, path, body },
-  );
-}
 
 async function signOut(page: Page): Promise<void> {
   await page.getByTestId('sign-out').click();

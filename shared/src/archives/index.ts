@@ -1,1 +1,2 @@
 export * from './archive.schema';
+export * from './transfer-rate';

@@ -1,30 +1,5 @@
-/**
- * The speed of an upload, smoothed over a few seconds: parts finish in bursts, several at a time,
- * so the rate between two moments means little.
- */
-export class TransferRate {
-  private samples: { at: number; bytes: number }[] = [];
-
-  constructor(private readonly windowMs = 5000) {}
-
-  /** The running total of bytes sent at time `at` (ms). */
-  add(at: number, bytes: number): void {
-    this.samples.push({ at, bytes });
-    // Keep the window and the one sample just before it, the anchor the rate is measured from.
-    const start = at - this.windowMs;
-    let firstInWindow = this.samples.findIndex((s) => s.at >= start);
-    if (firstInWindow < 0) firstInWindow = this.samples.length - 1;
-    this.samples.splice(0, Math.max(0, firstInWindow - 1));
-  }
-
-  /** Bytes per second from the anchor to the latest sample; 0 until there are two. */
-  perSecond(): number {
-    const first = this.samples[0];
-    const last = this.samples[this.samples.length - 1];
-    if (!first || last === first || last.at <= first.at) return 0;
-    return Math.max(0, ((last.bytes - first.bytes) * 1000) / (last.at - first.at));
-  }
-}
+/** The smoothed speed is shared with the portal's uploader. */
+export { TransferRate } from '@localis/shared';
 
 /**
  * A cap on the bytes per second all parallel senders write together (`--limit-rate`), so an upload

@@ -1,9 +1,8 @@
-import { partRange, type Archive, type ArchiveKind } from '@localis/shared';
+import { partRange, type Archive, type ArchiveKind, TransferRate } from '@localis/shared';
 import { createSHA256, type IHasher } from 'hash-wasm';
 import { isApiError } from '../../../api/api-error';
 import { archivesApi } from '../../../api/archives.api';
 import { forgetUpload, rememberUpload } from './archive-upload-memory';
-import { TransferRate } from './transfer-rate';
 
 /**
  * Uploads one file to the object store in parts, straight from the browser: the api hands out
