@@ -5,3 +5,4 @@
 export * from './storage/s3-client';
 export * from './provenance/node';
 export * from './archives/check';
+export * from './physics/kernel-thread';

@@ -7,10 +7,12 @@ export const QUEUES = {
   verifyArchive: 'localis-verify-archive',
   /** Finite-size scaling analyses of a campaign's verified archives. */
   analyze: 'localis-analyze',
+  /** Recomputes a few points of a verified archive with the transfer-matrix kernel. */
+  spotCheck: 'localis-spot-check',
   /** Gives new provenance entries their leaf indexes and signs a new tree head. */
   sequenceProvenance: 'localis-sequence-provenance',
 } as const;
 export type QueueName = (typeof QUEUES)[keyof typeof QUEUES];
 
 /** Kinds of outbox messages the dispatcher hands to the queues. */
-export const OUTBOX_KINDS = { mail: 'mail', verifyArchive: 'verify-archive', analyze: 'analyze' } as const;
+export const OUTBOX_KINDS = { mail: 'mail', verifyArchive: 'verify-archive', analyze: 'analyze', spotCheck: 'spot-check' } as const;

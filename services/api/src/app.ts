@@ -36,6 +36,7 @@ import { runsRoutes } from './runs/runs.router';
 import { archivesRoutes } from './archives/archives.router';
 import { provenanceRoutes } from './provenance/provenance.router';
 import { analysesRoutes } from './analyses/analyses.router';
+import { spotChecksRoutes } from './spot-checks/spot-checks.router';
 import { notificationsRoutes } from './notifications/notifications.router';
 import { idempotency } from './http/idempotency';
 
@@ -70,6 +71,7 @@ export function buildRoutes(deps: AppDeps, authController: ReturnType<typeof cre
     ...archivesRoutes(services.archives),
     ...provenanceRoutes(services.provenance, services.archives.verifiedIdBySha256),
     ...analysesRoutes(services.analyses),
+    ...spotChecksRoutes(services.spotChecks),
   ];
   let openapi: unknown;
   routes.push({

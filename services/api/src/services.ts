@@ -15,6 +15,7 @@ import { createArchivesService } from './archives/archives.service';
 import { createObjectStore } from './archives/object-store';
 import { createProvenanceService } from './provenance/provenance.service';
 import { createAnalysesService } from './analyses/analyses.service';
+import { createSpotChecksService } from './spot-checks/spot-checks.service';
 
 /** The composition root of the rules: seeds, the api and the worker all go through these. */
 export function createServices(db: Database, s: Settings) {
@@ -37,6 +38,7 @@ export function createServices(db: Database, s: Settings) {
     archives: createArchivesService(db, objectStore, campaigns),
     provenance: createProvenanceService(db, s, campaigns),
     analyses: createAnalysesService(db, campaigns),
+    spotChecks: createSpotChecksService(campaigns),
   };
 }
 export type Services = ReturnType<typeof createServices>;

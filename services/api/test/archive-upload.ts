@@ -38,3 +38,21 @@ export async function uploadArchive(call: ApiCall, campaignId: string, fileName:
   await sendParts(call, upload, bytes, Array.from({ length: upload.partCount }, (_, i) => i + 1));
   return json<Archive>(await complete(call, upload.archive.id, opts.sha256 ?? sha256Of(bytes)), 200);
 }
+
+/** Calls the api at `baseUrl` with a bearer token, as the CLI does. */
+export const bearerCaller = (baseUrl: string, token: string): ApiCall => (method, path, body) =>
+  fetch(`${baseUrl}/api/v1${path}`, {
+    method,
+    headers: { authorization: `Bearer ${token}`, ...(body !== undefined ? { 'content-type': 'application/json' } : {}) },
+    body: body === undefined ? undefined : JSON.stringify(body),
+  });
+
+/** Wait until a row leaves its moving states: this process or the test stack's worker runs the job (up to `seconds`). */
+export async function settled<T extends { state: string }>(find: () => Promise<T | null>, moving: string[], seconds = 120): Promise<T> {
+  let row = (await find())!;
+  for (let i = 0; i < seconds * 10 && moving.includes(row.state); i++) {
+    await new Promise((r) => setTimeout(r, 100));
+    row = (await find())!;
+  }
+  return row;
+}

@@ -1,1 +1,2 @@
 export * from './analysis.schema';
+export * from './spot-check.schema';

@@ -12,7 +12,7 @@ import { z } from 'zod';
 
 export const PROVENANCE_NAMESPACE = 'https://localis.example.org/ns/provenance#';
 
-export const PROVENANCE_KINDS = ['run-recorded', 'grant-decided', 'archive-verified', 'archive-withdrawn', 'analysis-computed'] as const;
+export const PROVENANCE_KINDS = ['run-recorded', 'grant-decided', 'archive-verified', 'archive-withdrawn', 'analysis-computed', 'spot-check-computed'] as const;
 export const ProvenanceKind = z.enum(PROVENANCE_KINDS);
 export type ProvenanceKind = z.infer<typeof ProvenanceKind>;
 

@@ -3,7 +3,7 @@ import { syntheticScalingTable, type Analysis, type AnalysisList, type Provenanc
 import { goodArchive } from '@localis/shared/node';
 import { startTestApp, type TestApp } from '../../test/harness';
 import { makeCampaignWorld, type CampaignWorld } from '../../test/campaign-world';
-import { uploadArchive, type ApiCall } from '../../test/archive-upload';
+import { uploadArchive, type ApiCall, bearerCaller, settled } from '../../test/archive-upload';
 import { ArchiveBusy, createArchiveVerifier } from '../archives/archive-verification';
 import { AnalysisRow, ArchiveRow } from '../db/models';
 import { createAnalysisRunner } from './analysis-runner';
@@ -16,22 +16,7 @@ let researcher: ApiCall;
 const SIZES = [8, 12, 16, 20];
 const WS = [15.5, 15.75, 16, 16.25, 16.5, 16.75, 17, 17.25, 17.5];
 
-const caller = (token: string): ApiCall => (method, path, body) =>
-  fetch(`${t.url}/api/v1${path}`, {
-    method,
-    headers: { authorization: `Bearer ${token}`, ...(body !== undefined ? { 'content-type': 'application/json' } : {}) },
-    body: body === undefined ? undefined : JSON.stringify(body),
-  });
-
-/** Wait until a row leaves its moving states: this process or the test stack's worker runs the job. */
-async function settled<T extends { state: string }>(find: () => Promise<T | null>, moving: string[]): Promise<T> {
-  let row = (await find())!;
-  for (let i = 0; i < 600 && moving.includes(row.state); i++) {
-    await new Promise((r) => setTimeout(r, 100));
-    row = (await find())!;
-  }
-  return row;
-}
+const caller = (token: string): ApiCall => bearerCaller(t.url, token);
 
 /** Run an analysis here (the stack's worker may take it first; then this waits for it). */
 async function runAnalysis(id: string): Promise<AnalysisRow> {

@@ -7,6 +7,7 @@ import { campaignsRepository } from '../campaigns/campaigns.repository';
 import { appendProvenance } from '../provenance/provenance.service';
 import { archiveRecord } from '../provenance/provenance-records';
 import { queueAutomaticAnalysis } from '../analyses/analyses.service';
+import { queueSpotCheck } from '../spot-checks/spot-checks.service';
 import { archivesRepository, type ArchiveRecord } from './archives.repository';
 import type { ObjectStore } from './object-store';
 
@@ -124,7 +125,10 @@ export function createArchiveVerifier(db: Database, store: ObjectStore) {
           tx,
         );
         // The campaign's analysis takes the new archive in (all verified archives together).
-        if (full.kind === 'results') await queueAutomaticAnalysis(full.campaignId, tx);
+        if (full.kind === 'results') {
+          await queueAutomaticAnalysis(full.campaignId, tx);
+          await queueSpotCheck(full, tx);
+        }
       }
       return state;
     });

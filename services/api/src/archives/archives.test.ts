@@ -3,7 +3,7 @@ import { RunInput, type Archive, type ConsistencyProof, type ProvenanceEntryList
 import { buildArchive, goodArchive, leafHash, verifyInclusion, verifyTreeHead, verifyConsistency } from '@localis/shared/node';
 import { startTestApp, type TestApp } from '../../test/harness';
 import { actingAs, makeCampaignWorld, type CampaignWorld } from '../../test/campaign-world';
-import { complete, sendParts, sha256Of, startUpload, uploadArchive, type ApiCall } from '../../test/archive-upload';
+import { complete, sendParts, sha256Of, startUpload, uploadArchive, type ApiCall, bearerCaller } from '../../test/archive-upload';
 import { ArchiveBusy, createArchiveVerifier, type ArchiveVerifier } from './archive-verification';
 import { ArchiveRow, ProvenanceEntryRow } from '../db/models';
 import { abandonStaleUploads } from './abandoned-uploads';
@@ -14,12 +14,7 @@ let campaignId: string;
 let runIds: string[];
 let verifier: ArchiveVerifier;
 
-const caller = (token: string): ApiCall => (method, path, body) =>
-  fetch(`${t.url}/api/v1${path}`, {
-    method,
-    headers: { authorization: `Bearer ${token}`, ...(body !== undefined ? { 'content-type': 'application/json' } : {}) },
-    body: body === undefined ? undefined : JSON.stringify(body),
-  });
+const caller = (token: string): ApiCall => bearerCaller(t.url, token);
 let researcher: ApiCall;
 let pi: ApiCall;
 let outsider: ApiCall;

@@ -270,6 +270,7 @@ export const MATRIX: MatrixRow[] = [
   { method: 'GET', route: '/api/v1/campaigns/:id/analyses', path: (f) => `/api/v1/campaigns/${f.grantedId}/analyses`, expect: groupReaders },
   { method: 'GET', route: '/api/v1/analyses/:id', path: (f) => `/api/v1/analyses/${f.analysisId}`, expect: groupReaders },
   { method: 'POST', route: '/api/v1/campaigns/:id/analyses', path: (f) => `/api/v1/campaigns/${f.grantedId}/analyses`, body: () => ({ bootstrap: 0 }), expect: groupRecorders(202) },
+  { method: 'GET', route: '/api/v1/campaigns/:id/spot-checks', path: (f) => `/api/v1/campaigns/${f.grantedId}/spot-checks`, expect: groupReaders },
 
   { method: 'GET', route: '/api/v1/provenance/head', path: fixed('/api/v1/provenance/head'), expect: signedIn(200) },
   { method: 'GET', route: '/api/v1/provenance/key', path: fixed('/api/v1/provenance/key'), expect: signedIn(200) },

@@ -20,6 +20,7 @@ export const provId = {
   person: (id: string) => `localis:person/${id}`,
   code: (name: string, version: string) => `localis:code/${encodeURIComponent(name)}@${encodeURIComponent(version)}`,
   analysis: (id: string) => `localis:analysis/${id}`,
+  spotCheck: (id: string) => `localis:spot-check/${id}`,
 };
 
 const runOutputLabel = (jobId: string) => `Output of job ${jobId}`;
@@ -203,5 +204,40 @@ export function analysisRecord(a: AnalysisFacts): ProvenanceRecord {
     wasGeneratedBy: [{ entity: analysis, activity: run }],
     wasAssociatedWith: [{ activity: run, agent: code.id, role: 'code' }, ...person.map((p) => ({ activity: run, agent: p.id, role: 'requested-by' }))],
     wasDerivedFrom: a.archives.map((x) => ({ generated: analysis, used: provId.archive(x.id) })),
+  };
+}
+
+export interface SpotCheckFacts {
+  id: string;
+  campaignId: string;
+  archive: { id: string; fileName: string };
+  points: number;
+  flagged: number;
+  code: { name: string; version: string };
+  startedAt: string;
+  at: string;
+}
+
+/** A reproducibility spot-check: derived from the archive whose points the kernel recomputed. */
+export function spotCheckRecord(s: SpotCheckFacts): ProvenanceRecord {
+  const check = provId.spotCheck(s.id);
+  const run = `localis:spot-check-run/${s.id}`;
+  const code: ProvAgent = { id: provId.code(s.code.name, s.code.version), label: `${s.code.name} ${s.code.version}`, kind: 'software', attributes: { name: s.code.name, version: s.code.version } };
+  const archive = provId.archive(s.archive.id);
+  return {
+    v: 1,
+    kind: 'spot-check-computed',
+    campaignId: s.campaignId,
+    at: s.at,
+    entities: [
+      { id: check, label: `Spot-check (${s.points - s.flagged} of ${s.points} points within 3 standard errors)`, attributes: { points: s.points, flagged: s.flagged } },
+      { id: archive, label: s.archive.fileName, attributes: {} },
+    ],
+    activities: [{ id: run, label: 'Transfer-matrix recomputation', startedAt: s.startedAt, endedAt: s.at, attributes: {} }],
+    agents: [code],
+    used: [{ activity: run, entity: archive }],
+    wasGeneratedBy: [{ entity: check, activity: run }],
+    wasAssociatedWith: [{ activity: run, agent: code.id, role: 'code' }],
+    wasDerivedFrom: [{ generated: check, used: archive }],
   };
 }

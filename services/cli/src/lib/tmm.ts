@@ -1,13 +1,10 @@
-import { Worker } from 'node:worker_threads';
-import type { TransferMatrixProgress, TransferMatrixResult } from '@localis/shared';
+import { TransferMatrixCancelled, type TransferMatrixProgress, type TransferMatrixResult } from '@localis/shared';
+import { KernelThreadFailure, startTransferMatrixThread } from '@localis/shared/node';
 import { CliError, EXIT } from './cli-error';
 import { formatProgress, formatTmm } from './format-tmm';
 import { terminalOutput, type Output } from './output';
 import { planTmm, type TmmPlan, type TmmRawOptions } from './tmm-options';
-import type { TmmWorkerData, TmmWorkerMessage } from './tmm-worker';
 
-/** About 2 ms of kernel work between two looks at the clock for the progress line: too little to slow it. */
-const OPERATIONS_BETWEEN_PROGRESS_CHECKS = 2e6;
 /** How long Ctrl-C waits for the kernel's next re-orthonormalization before stopping the thread outright. */
 const STOP_GRACE_MS = 1000;
 
@@ -47,67 +44,30 @@ function progressLine(stderr: NodeJS.WriteStream, plan: TmmPlan) {
 }
 
 /**
- * The kernel is one synchronous loop. A SIGINT handler is a JavaScript callback, and while that
- * loop holds the main thread Node only queues the signal: the handler would run after the run
- * ends, and an `isCancelled` flag it sets would never be seen. Running the kernel in chunks would
- * need a kernel that can pause and resume, which it is not. So it runs in a worker thread: the main
- * thread stays idle, receives Ctrl-C, and sets a flag in shared memory that the kernel's
- * `isCancelled` reads at every re-orthonormalization; the kernel then stops and says after how
- * many slices. A wide bar can spend seconds between two such checks, so a thread that has not
- * stopped within STOP_GRACE_MS (or at a second Ctrl-C) is terminated: it holds nothing to save.
+ * The kernel runs on a thread of its own (`startTransferMatrixThread`), so this thread stays free
+ * to receive Ctrl-C: the first asks the kernel to stop at its next re-orthonormalization (and ends
+ * the thread after STOP_GRACE_MS), a second ends it at once.
  */
-function runInWorker(plan: TmmPlan, onProgress?: (progress: TransferMatrixProgress) => void): Promise<TransferMatrixResult> {
-  const cancel = new Int32Array(new SharedArrayBuffer(Int32Array.BYTES_PER_ELEMENT));
-  const workOfOneCheck = plan.operationsPerSlice * plan.input.reorthogonalizeEvery;
-  const data: TmmWorkerData = {
-    input: plan.input,
-    cancel,
-    progressEvery: onProgress ? Math.max(1, Math.round(OPERATIONS_BETWEEN_PROGRESS_CHECKS / workOfOneCheck)) : 0,
+async function runInWorker(plan: TmmPlan, onProgress?: (progress: TransferMatrixProgress) => void): Promise<TransferMatrixResult> {
+  const run = startTransferMatrixThread(plan.input, { onProgress, graceMs: STOP_GRACE_MS });
+  let interrupted = false;
+  const onSigint = () => {
+    if (interrupted) run.terminate();
+    else run.cancel();
+    interrupted = true;
   };
-  const worker = new Worker(new URL('./tmm-worker.mjs', import.meta.url), { workerData: data });
-
-  return new Promise((resolve, reject) => {
-    let slicesDone = 0;
-    let stopTimer: NodeJS.Timeout | undefined;
-    const cancelled = (slices: number) =>
-      new CliError(slices > 0 ? `cancelled after ${slices.toLocaleString('en')} slices; no result.` : 'cancelled; no result.', { exitCode: EXIT.interrupted });
-
-    const onSigint = () => {
-      if (Atomics.load(cancel, 0) === 1) {
-        void worker.terminate();
-        return;
-      }
-      Atomics.store(cancel, 0, 1);
-      stopTimer = setTimeout(() => void worker.terminate(), STOP_GRACE_MS);
-    };
-    process.on('SIGINT', onSigint);
-
-    worker.on('message', (message: TmmWorkerMessage) => {
-      switch (message.type) {
-        case 'progress':
-          slicesDone = message.progress.slices;
-          onProgress?.(message.progress);
-          break;
-        case 'result':
-          resolve(message.result);
-          break;
-        case 'cancelled':
-          reject(cancelled(message.slices));
-          break;
-        case 'failed':
-          reject(failure(message.message, plan));
-          break;
-      }
-    });
-    worker.on('error', reject);
-    // A promise settles once: these only count when no message has settled it first.
-    worker.on('exit', () => {
-      process.off('SIGINT', onSigint);
-      clearTimeout(stopTimer);
-      if (Atomics.load(cancel, 0) === 1) reject(cancelled(slicesDone));
-      else reject(new Error('the transfer-matrix thread stopped without a result'));
-    });
-  });
+  process.on('SIGINT', onSigint);
+  try {
+    return await run.result;
+  } catch (e) {
+    if (e instanceof TransferMatrixCancelled) {
+      throw new CliError(e.slices > 0 ? `cancelled after ${e.slices.toLocaleString('en')} slices; no result.` : 'cancelled; no result.', { exitCode: EXIT.interrupted });
+    }
+    if (e instanceof KernelThreadFailure) throw failure(e.message, plan);
+    throw e;
+  } finally {
+    process.off('SIGINT', onSigint);
+  }
 }
 
 function failure(message: string, plan: TmmPlan): CliError {

@@ -12,8 +12,9 @@ import { ReviewAssignment, Review } from './review.model';
 import { Run, LedgerEntry, UsageAlert } from './ledger.model';
 import { Notification, IdempotencyKey } from './notification.model';
 import { AnalysisRow, ArchiveRow, ProvenanceEntryRow, ProvenanceTreeHeadRow } from './archive.model';
+import { SpotCheckRecord } from './spot-check.model';
 
-export { Institution, Person, ResearchGroup, GroupMembership, RoleGrant, ApiToken, AuditLog, OutboxMessage, Round, RoundPool, Campaign, CampaignEvent, ReviewAssignment, Review, Run, LedgerEntry, UsageAlert, Notification, IdempotencyKey, ArchiveRow, ProvenanceEntryRow, ProvenanceTreeHeadRow, AnalysisRow };
+export { Institution, Person, ResearchGroup, GroupMembership, RoleGrant, ApiToken, AuditLog, OutboxMessage, Round, RoundPool, Campaign, CampaignEvent, ReviewAssignment, Review, Run, LedgerEntry, UsageAlert, Notification, IdempotencyKey, ArchiveRow, ProvenanceEntryRow, ProvenanceTreeHeadRow, AnalysisRow, SpotCheckRecord };
 
 export interface Models {
   Institution: typeof Institution;
@@ -39,6 +40,7 @@ export interface Models {
   ProvenanceEntryRow: typeof ProvenanceEntryRow;
   ProvenanceTreeHeadRow: typeof ProvenanceTreeHeadRow;
   AnalysisRow: typeof AnalysisRow;
+  SpotCheckRecord: typeof SpotCheckRecord;
 }
 
 /**
@@ -69,6 +71,7 @@ export function initModels(sequelize: Sequelize): Models {
   ProvenanceEntryRow.initModel(sequelize);
   ProvenanceTreeHeadRow.initModel(sequelize);
   AnalysisRow.initModel(sequelize);
+  SpotCheckRecord.initModel(sequelize);
 
   Person.belongsTo(Institution, { foreignKey: 'institutionId', as: 'institution' });
   Person.hasMany(RoleGrant, { foreignKey: 'personId', as: 'roleGrants' });
@@ -94,5 +97,6 @@ export function initModels(sequelize: Sequelize): Models {
   ArchiveRow.belongsTo(Person, { foreignKey: 'uploadedByPersonId', as: 'uploadedBy' });
   ArchiveRow.belongsTo(Person, { foreignKey: 'withdrawnByPersonId', as: 'withdrawnBy' });
   AnalysisRow.belongsTo(Person, { foreignKey: 'requestedByPersonId', as: 'requestedBy' });
-  return { Institution, Person, ResearchGroup, GroupMembership, RoleGrant, ApiToken, AuditLog, OutboxMessage, Round, RoundPool, Campaign, CampaignEvent, ReviewAssignment, Review, Run, LedgerEntry, UsageAlert, Notification, IdempotencyKey, ArchiveRow, ProvenanceEntryRow, ProvenanceTreeHeadRow, AnalysisRow };
+  SpotCheckRecord.belongsTo(ArchiveRow, { foreignKey: 'archiveId', as: 'archive' });
+  return { Institution, Person, ResearchGroup, GroupMembership, RoleGrant, ApiToken, AuditLog, OutboxMessage, Round, RoundPool, Campaign, CampaignEvent, ReviewAssignment, Review, Run, LedgerEntry, UsageAlert, Notification, IdempotencyKey, ArchiveRow, ProvenanceEntryRow, ProvenanceTreeHeadRow, AnalysisRow, SpotCheckRecord };
 }

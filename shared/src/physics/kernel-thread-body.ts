@@ -1,27 +1,25 @@
 import { parentPort, workerData } from 'node:worker_threads';
-import { runTransferMatrix, TransferMatrixCancelled, type TransferMatrixProgress, type TransferMatrixResult } from '@localis/shared';
-import type { TmmPlan } from './tmm-options';
+import { runTransferMatrix, TransferMatrixCancelled, type TransferMatrixInput, type TransferMatrixProgress, type TransferMatrixResult } from './transfer-matrix';
 
-/** What `localis tmm` hands its worker thread. */
-export interface TmmWorkerData {
-  input: TmmPlan['input'];
-  /** One Int32 the main thread sets to 1 on Ctrl-C; shared memory, so it is seen mid-run. */
+/** What the kernel's thread is handed. */
+export interface KernelThreadData {
+  input: Omit<TransferMatrixInput, 'onProgress' | 'isCancelled' | 'progressEvery'>;
+  /** One Int32 the caller sets to 1 to cancel; shared memory, so it is seen mid-run. */
   cancel: Int32Array;
   /** Re-orthonormalizations between two looks at the clock; 0 for no progress at all. */
   progressEvery: number;
+  /** Least time between two progress messages. */
+  progressIntervalMs: number;
 }
 
-export type TmmWorkerMessage =
+export type KernelThreadMessage =
   | { type: 'progress'; progress: TransferMatrixProgress }
   | { type: 'result'; result: TransferMatrixResult }
   | { type: 'cancelled'; slices: number }
   | { type: 'failed'; message: string };
 
-/** A terminal redraws smoothly at this pace; faster only costs the kernel time. */
-const PROGRESS_INTERVAL_MS = 100;
-
-const data = workerData as TmmWorkerData;
-const post = (message: TmmWorkerMessage) => parentPort!.postMessage(message);
+const data = workerData as KernelThreadData;
+const post = (message: KernelThreadMessage) => parentPort!.postMessage(message);
 let lastPost = 0;
 
 try {
@@ -33,7 +31,7 @@ try {
       data.progressEvery > 0
         ? (progress) => {
             const now = performance.now();
-            if (now - lastPost < PROGRESS_INTERVAL_MS) return;
+            if (now - lastPost < data.progressIntervalMs) return;
             lastPost = now;
             post({ type: 'progress', progress });
           }
