@@ -41,6 +41,9 @@ export const ROUNDS: ScenarioRound[] = [
 ];
 
 const node = { coresPerNode: 128, memoryGiBPerNode: 512 };
+/** The disorder grids of the two transfer-matrix campaigns whose results the demo computes (`results-scenario.ts`). */
+export const PILOT_3D_W = [15, 15.5, 16, 16.5, 17, 17.5, 18, 18.5, 19];
+export const STRIPS_2D_W = [4, 5, 6, 7, 8];
 const campaign = (n: number) => `5e000000-0000-4000-8000-${String(n).padStart(12, '0')}`;
 
 export const CAMPAIGNS: ScenarioCampaign[] = [
@@ -142,6 +145,35 @@ export const CAMPAIGNS: ScenarioCampaign[] = [
         model: 'anderson-gaussian', dimension: 3, symmetryClass: 'A', goal: 'transport', sizes: [64, 128, 256],
         disorder: { values: [1, 2, 4] }, energies: [0], realizations: 100, method: 'kernel-polynomial',
         methodOptions: { moments: 2048, randomVectors: 16 }, node,
+      },
+    },
+  },
+  {
+    id: campaign(9), ownerId: person(3), roundId: CLOSED_ROUND, state: 'granted',
+    decision: { grantedShare: 1, message: 'Granted in full: a small pilot whose crossings will size the full study of the next round.' },
+    input: {
+      title: 'Pilot scan of the 3D orthogonal transition on small bars',
+      abstract: 'Transfer-matrix Lambda of bars of width L = 4, 6 and 8 with box disorder around W = 16.5, to see the crossing and size the full study.',
+      justification: '## Aim\nA first look at the crossing of Lambda(W) for small bars before asking for L up to 24.\n\n## Method\n- periodic transverse boundaries, E = 0\n- relative precision 1 % (1.5 % at L = 8)',
+      groupId: LATTICES, machine: 'fjell',
+      spec: {
+        model: 'anderson-box', dimension: 3, symmetryClass: 'AI', goal: 'critical-point', sizes: [4, 6, 8],
+        disorder: { values: PILOT_3D_W }, energies: [0], realizations: 1, method: 'transfer-matrix', targetPrecision: 0.01,
+        methodOptions: { expectedLambda: 0.6 }, node,
+      },
+    },
+  },
+  {
+    id: campaign(10), ownerId: person(2), roundId: CLOSED_ROUND, state: 'granted',
+    decision: { grantedShare: 1, message: 'Granted in full; a useful baseline for the 2D proposals.' },
+    input: {
+      title: 'Localization lengths of 2D orthogonal strips',
+      abstract: 'Transfer-matrix Lambda of strips of width 8, 16 and 32 with box disorder W = 4 to 8: in two dimensions the orthogonal class localizes at any disorder, so Lambda should fall with L everywhere.',
+      justification: 'The baseline against which the group will judge its 2D transition searches.',
+      groupId: LATTICES, machine: 'fjell',
+      spec: {
+        model: 'anderson-box', dimension: 2, symmetryClass: 'AI', goal: 'localization-length', sizes: [8, 16, 32],
+        disorder: { values: STRIPS_2D_W }, energies: [0], realizations: 1, method: 'transfer-matrix', targetPrecision: 0.01, node,
       },
     },
   },

@@ -1,4 +1,5 @@
 import type { RunParameters } from '@localis/shared';
+import { PILOT_3D_W, STRIPS_2D_W } from './campaigns-scenario';
 
 /**
  * Runs of the demo's granted campaigns, in the order they happened, with the office's refund
@@ -41,6 +42,8 @@ const campaign = (n: number) => `5e000000-0000-4000-8000-${String(n).padStart(12
 const MARA = person(4);
 const PRIYA = person(5);
 const SOFIA = person(8);
+const TOBIAS = person(2);
+const INES = person(3);
 
 /** Conductance of cubes with the recursive Green's function code, class A, E = 0. */
 const rgf = (externalJobId: string, daysAgo: number, startHourUtc: number, cores: number, shareOfGrant: number, p: { sizes: number[]; disorder: number[]; seeds: number[] }, codeVersion = '4e9c0a7'): ScenarioRun => ({
@@ -52,7 +55,13 @@ const kpm = (externalJobId: string, daysAgo: number, startHourUtc: number, cores
   externalJobId, daysAgo, startHourUtc, cores, shareOfGrant, codeName: 'kpm-dos', codeVersion, parameters: { ...p, energies: [] },
 });
 
+/** Transfer-matrix bars with Localis's own kernel (the demo's result archives hold what it computed). */
+const tmm = (externalJobId: string, daysAgo: number, startHourUtc: number, cores: number, shareOfGrant: number, p: { sizes: number[]; disorder: number[]; seeds: number[] }): ScenarioRun => ({
+  externalJobId, daysAgo, startHourUtc, cores, shareOfGrant, codeName: 'localis-transfer-matrix', codeVersion: '1', parameters: { ...p, energies: [0] },
+});
+
 const ALL_W = [17, 17.5, 18, 18.5, 19, 19.5];
+
 
 export const RUN_PLANS: ScenarioRunPlan[] = [
   {
@@ -90,5 +99,18 @@ export const RUN_PLANS: ScenarioRunPlan[] = [
       { kind: 'adjustment', coreHours: 150, reason: 'Agreed with the committee after the W = 4 convergence test: 4096 moments at W = 4, where the band tail did not converge with 2048.' },
       { kind: 'run', by: SOFIA, via: 'api', run: kpm('213054', 20, 9.75, 256, 0.09, { sizes: [256], disorder: [1], seeds: [41] }, '5f0e8b2') },
     ],
+  },
+  {
+    // The 3D pilot of the Disordered Lattices group: the small bars, then L = 8 (each an archive).
+    campaignId: campaign(9),
+    steps: [
+      { kind: 'run', by: INES, via: 'api', run: tmm('4471190', 90, 8.5, 1, 0.3, { sizes: [4, 6], disorder: PILOT_3D_W, seeds: [9001] }) },
+      { kind: 'run', by: INES, via: 'api', run: tmm('4480552', 84, 10, 1, 0.45, { sizes: [8], disorder: PILOT_3D_W, seeds: [9002] }) },
+    ],
+  },
+  {
+    // The 2D baseline: one job for all three strip widths.
+    campaignId: campaign(10),
+    steps: [{ kind: 'run', by: TOBIAS, via: 'portal', run: tmm('4491733', 77, 14.5, 1, 0.5, { sizes: [8, 16, 32], disorder: STRIPS_2D_W, seeds: [10001] }) }],
   },
 ];

@@ -1,4 +1,4 @@
-import type { Analysis, Archive, Role } from '@localis/shared';
+import type { Analysis, Archive, Role, SpotCheck, SpotCheckRow } from '@localis/shared';
 import { flushPromises, type VueWrapper } from '@vue/test-utils';
 import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
 import { useSessionStore } from '../../stores/session.store';
@@ -16,6 +16,7 @@ const campaign = campaignFixture({
   can: { ...CAN_NOTHING, recordRuns: true, uploadResults: true },
 });
 const LIST = `${API}/campaigns/${campaign.id}/analyses`;
+const SPOT_CHECKS = `${API}/campaigns/${campaign.id}/spot-checks`;
 
 const earlier = analysisFixture({ createdAt: '2027-03-01T09:22:00.000Z', finishedAt: '2027-03-01T09:22:09.000Z', requestedByName: null });
 const latest = analysisFixture({
@@ -26,10 +27,50 @@ const latest = analysisFixture({
 });
 latest.result!.model.chosenBy = 'user';
 
+function spotCheckRow(overrides: Partial<SpotCheckRow> = {}): SpotCheckRow {
+  return {
+    L: 6,
+    W: 15,
+    E: 0,
+    reported: 0.5734,
+    reportedErr: 0.0021,
+    recomputed: 0.5751,
+    recomputedErr: 0.0029,
+    z: 0.4747,
+    flagged: false,
+    dimension: 3,
+    precision: 0.005,
+    seed: 2718281,
+    slices: 48_000,
+    seconds: 11.2,
+    ...overrides,
+  };
+}
+
+/** A spot-check as the api answers: done, three points of L = 6, the middle one beyond 3 standard errors. */
+function spotCheckFixture(overrides: Partial<SpotCheck> = {}): SpotCheck {
+  return {
+    id: '9a8b7c6d-5e4f-4a3b-8c2d-1e0f9a8b7c6d',
+    campaignId: campaign.id,
+    archiveId: '7c1d2e3f-4a5b-4c6d-8e7f-9a0b1c2d3e4f',
+    archiveFileName: 'w15-18-L6-16.tar.gz',
+    state: 'done',
+    progress: { done: 3, total: 3 },
+    rows: [spotCheckRow(), spotCheckRow({ W: 16.5, reported: 0.61, recomputed: 0.5951, z: -4.1, flagged: true }), spotCheckRow({ W: 18, z: 1.2 })],
+    flagged: 1,
+    reason: null,
+    createdAt: '2027-03-01T09:22:00.000Z',
+    startedAt: '2027-03-01T09:22:01.000Z',
+    finishedAt: '2027-03-01T09:22:40.000Z',
+    ...overrides,
+  };
+}
+
 /** The api's analysis routes in process: the list, one analysis, and POST, which queues. */
 class AnalysisApiFake {
   analyses: Analysis[] = [];
   archives: Archive[] = [archiveFixture()];
+  spotChecks: SpotCheck[] = [];
   posted: unknown[] = [];
   campaign = campaign;
   fetch = stubFetch((url, init) => this.serve(url, init));
@@ -39,6 +80,7 @@ class AnalysisApiFake {
     if (url === `${API}/campaigns/${campaign.id}`) return json(200, this.campaign);
     if (url === `${API}/campaigns/${campaign.id}/archives`) return json(200, { items: this.archives });
     if (url === LIST && method === 'GET') return json(200, { items: this.analyses });
+    if (url === SPOT_CHECKS && method === 'GET') return json(200, { items: this.spotChecks });
     if (url === LIST && method === 'POST') {
       const body = JSON.parse(String(init!.body));
       this.posted.push(body);
@@ -54,6 +96,10 @@ class AnalysisApiFake {
 
   update(id: string, change: Partial<Analysis>): void {
     this.analyses = this.analyses.map((a) => (a.id === id ? { ...a, ...change } : a));
+  }
+
+  spotCheckGets(): number {
+    return this.fetch.mock.calls.filter(([url]) => url === SPOT_CHECKS).length;
   }
 
   gets(id: string): number {
@@ -284,6 +330,95 @@ describe('CampaignAnalysisView', { timeout: 20_000 }, () => {
       expect(wrapper.find('[data-testid="analysis-parameters"]').exists()).toBe(true);
       expect(wrapper.find('[data-testid="analysis-run-form"]').exists()).toBe(false);
       expect(wrapper.find('[data-testid="to-run-form"]').exists()).toBe(false);
+    });
+  });
+  describe('reproducibility spot-checks', () => {
+    it('should list each archive’s recomputed points with z, the flagged one marked in words, and the command that repeats it', async () => {
+      api.spotChecks = [spotCheckFixture()];
+      const { wrapper } = await mountAnalysis();
+      const section = wrapper.get('[data-testid="spot-checks"]');
+      const check = section.get(`[data-testid="spot-check-${api.spotChecks[0].id}"]`);
+      expect(section.text()).toContain('Reproducibility spot-checks');
+      expect(section.text()).toContain('a point is flagged when |z| > 3');
+      expect(check.text()).toContain('w15-18-L6-16.tar.gz');
+      expect(check.get(`[data-testid="spot-check-state-${api.spotChecks[0].id}"]`).text()).toBe('Done');
+      expect(check.get(`[data-testid="spot-check-summary-${api.spotChecks[0].id}"]`).text()).toBe('2 of 3 points within 3 standard errors; 1 flagged.');
+      expect(section.get('[data-testid="spot-checks-summary"]').text()).toContain('Over 1 archive, 2 of 3 points within 3 standard errors; 1 flagged.');
+
+      const id = api.spotChecks[0].id;
+      expect([0, 1, 2].map((i) => check.get(`[data-testid="spot-check-z-${id}-${i}"]`).text())).toEqual(['+0.47', '−4.10', '+1.20']);
+      expect(check.find(`[data-testid="spot-check-flag-${id}-0"]`).exists()).toBe(false);
+      expect(check.get(`[data-testid="spot-check-flag-${id}-1"]`).text()).toBe('Flagged: |z| > 3');
+      expect(check.get(`[data-testid="spot-check-flag-${id}-1"]`).find('.pi-exclamation-triangle').exists()).toBe(true);
+      expect(check.text()).toContain('0.5734 ± 0.0021');
+      expect(check.text()).toContain('0.5751 ± 0.0029');
+
+      const commands = check.findAll('[data-testid="spot-check-command"]').map((c) => c.text());
+      expect(commands).toEqual([
+        'localis tmm --dim 3 --width 6 --disorder 15 --energy 0 --precision 0.005 --seed 2718281',
+        'localis tmm --dim 3 --width 6 --disorder 16.5 --energy 0 --precision 0.005 --seed 2718281',
+        'localis tmm --dim 3 --width 6 --disorder 18 --energy 0 --precision 0.005 --seed 2718281',
+      ]);
+      expect(check.findAll('[data-testid="spot-check-copy"]')).toHaveLength(3);
+    });
+
+    it('should say why the kernel cannot check an archive, or why a check failed', async () => {
+      api.spotChecks = [
+        spotCheckFixture({ id: '1b2c3d4e-5f6a-4b7c-8d9e-0f1a2b3c4d5e', state: 'not-applicable', rows: [], flagged: 0, progress: null, reason: 'the kernel has real hopping (class AI); this campaign is in class AII' }),
+        spotCheckFixture({ state: 'failed', rows: [], flagged: 0, reason: null }),
+      ];
+      const { wrapper } = await mountAnalysis();
+      expect(wrapper.get('[data-testid="spot-check-reason-1b2c3d4e-5f6a-4b7c-8d9e-0f1a2b3c4d5e"]').text()).toBe(
+        'This archive cannot be spot-checked: the kernel has real hopping (class AI); this campaign is in class AII.',
+      );
+      expect(wrapper.get(`[data-testid="spot-check-reason-${api.spotChecks[1].id}"]`).text()).toContain('The spot-check failed: the worker stopped without saying why.');
+      expect(wrapper.find('[data-testid="spot-checks-summary"]').exists()).toBe(false);
+      expect(wrapper.find('[data-testid="download-spot-checks-csv"]').exists()).toBe(false);
+    });
+
+    it('should show the section with its empty state even before there is any analysis', async () => {
+      api.analyses = [];
+      api.archives = [archiveFixture({ state: 'checking' })];
+      const { wrapper } = await mountAnalysis();
+      expect(wrapper.get('[data-testid="analysis-empty"]').text()).toContain('No verified result archive yet');
+      expect(wrapper.get('[data-testid="spot-checks-empty"]').text()).toContain('No verified archives have been spot-checked yet.');
+    });
+
+    it('should show a running check’s progress, asked again every 3 s until it is done, then stop asking', async () => {
+      vi.useFakeTimers({ toFake: ['setInterval', 'clearInterval'] });
+      const done = spotCheckFixture();
+      api.spotChecks = [{ ...done, state: 'running', progress: { done: 1, total: 3 }, rows: [], flagged: 0, finishedAt: null }];
+      const { wrapper } = await mountAnalysis();
+      expect(wrapper.get(`[data-testid="spot-check-state-${done.id}"]`).text()).toBe('Running');
+      expect(wrapper.find(`[data-testid="spot-check-progress-${done.id}"]`).exists()).toBe(true);
+      expect(wrapper.get('[data-testid="spot-checks"]').text()).toContain('Running: 1 of 3 points recomputed, 33 %.');
+
+      api.spotChecks = [done];
+      vi.advanceTimersByTime(3000);
+      await flushPromises();
+      expect(wrapper.get(`[data-testid="spot-check-state-${done.id}"]`).text()).toBe('Done');
+      expect(wrapper.find(`[data-testid="spot-check-progress-${done.id}"]`).exists()).toBe(false);
+      expect(wrapper.findAll('[data-testid="spot-check-command"]')).toHaveLength(3);
+
+      const settled = api.spotCheckGets();
+      vi.advanceTimersByTime(10_000);
+      await flushPromises();
+      expect(api.spotCheckGets()).toBe(settled);
+    });
+
+    it('should hand over every point as CSV and JSON, named after the campaign', async () => {
+      const files = captureDownloads();
+      api.spotChecks = [spotCheckFixture()];
+      const { wrapper } = await mountAnalysis();
+      await wrapper.get('[data-testid="download-spot-checks-csv"]').trigger('click');
+      await wrapper.get('[data-testid="download-spot-checks-json"]').trigger('click');
+      expect(files.map((f) => f.name)).toEqual(['localis-critical-disorder-of-the-3d-anderson-model-spot-checks.csv', 'localis-critical-disorder-of-the-3d-anderson-model-spot-checks.json']);
+      const lines = (await files[0].blob.text()).trim().split('\r\n');
+      expect(lines[0]).toBe('archive,archiveId,L,W,E,reported,reportedErr,recomputed,recomputedErr,z,flagged,dimension,precision,seed,slices,seconds,command');
+      expect(lines).toHaveLength(4);
+      const json = JSON.parse(await files[1].blob.text());
+      expect(json).toMatchObject({ campaignId: campaign.id, table: 'spot-checks', limit: 3 });
+      expect(json.rows[1]).toMatchObject({ W: 16.5, z: -4.1, flagged: true });
     });
   });
 });

@@ -11,9 +11,12 @@ export const SPOT_CHECK_CODE = { name: 'localis-transfer-matrix', version: '1' }
 
 export type SpotCheckOutcome = 'done' | 'not-applicable' | 'failed' | 'skipped';
 
-/** A seed per point from the spot-check's id: a retried job recomputes exactly the same numbers. */
-export function spotCheckSeed(spotCheckId: string, index: number): number {
-  return createHash('sha256').update(`${spotCheckId}:${index}`).digest().readUInt32BE(0) >>> 1;
+/**
+ * A seed per point from the point itself: whoever checks the same point again (a retried job,
+ * another installation, `localis tmm`) gets the same numbers. 31 bits, as the CLI takes them.
+ */
+export function spotCheckSeed(target: Pick<SpotCheckTarget, 'dimension' | 'L' | 'W' | 'E' | 'reported'>): number {
+  return createHash('sha256').update(`spot-check:${target.dimension}:${target.L}:${target.W}:${target.E}:${target.reported}`).digest().readUInt32BE(0) >>> 1;
 }
 
 const sentence = (text: string) => `${text.charAt(0).toUpperCase()}${text.slice(1)}.`;
@@ -77,7 +80,7 @@ export function createSpotCheckRunner(db: Database) {
         await spotChecksRepository.setProgress(spotCheckId, { done: 0, total });
         const computed: { target: SpotCheckTarget; seed: number; result: TransferMatrixResult }[] = [];
         for (const [index, target] of plan.targets.entries()) {
-          const seed = spotCheckSeed(spotCheckId, index);
+          const seed = spotCheckSeed(target);
           computed.push({ target, seed, result: await recompute(target, seed) });
           await spotChecksRepository.setProgress(spotCheckId, { done: index + 1, total });
         }
