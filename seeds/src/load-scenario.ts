@@ -85,6 +85,14 @@ async function loadRoundsAndCampaigns(services: Services, report: LoadReport): P
     );
     report.rounds++;
   }
+  // A database loaded by an older scenario may miss campaigns of a round closed since: the round
+  // is opened again for them, as the office would, and closed below once they are decided.
+  for (const r of ROUNDS.filter((r) => r.closesMonths < 1)) {
+    const missing = await Promise.all(CAMPAIGNS.filter((c) => c.roundId === r.id).map(async (c) => !(await Campaign.findByPk(c.id, { attributes: ['id'] }))));
+    if (!missing.some(Boolean)) continue;
+    const round = await services.rounds.get(r.id);
+    if (round.status === 'closed') await services.rounds.update(admin, r.id, { closesAt: monthsFrom(monthStart, 1) });
+  }
   for (const c of CAMPAIGNS) {
     let current = await Campaign.findByPk(c.id);
     if (!current) {

@@ -40,7 +40,10 @@ describe('spot-check plan', () => {
 
   it('should ask the kernel for the archive’s own precision when the time allows, and no finer than the budget otherwise', () => {
     const cheap = planSpotCheck(box3d, [point(4, 16, 0, 0.6, 0.006)]);
-    expect('targets' in cheap && cheap.targets[0]!.precision).toBeCloseTo(0.01, 12);
+    expect('targets' in cheap && cheap.targets[0]!.precision).toBe(0.01);
+    // Rounded up to two figures, so the command a person copies stays short: 0.0146 -> 0.015.
+    const odd = planSpotCheck(box3d, [point(4, 16, 0, 0.6, 0.00877)]);
+    expect('targets' in odd && odd.targets[0]!.precision).toBe(0.015);
     // L = 10 in 3D: 1 % would take minutes a point, so the finest precision the budget allows is used.
     const dear = planSpotCheck(box3d, [point(10, 16, 0, 0.6, 0.006)]);
     const precision = 'targets' in dear ? dear.targets[0]!.precision : NaN;
@@ -48,6 +51,7 @@ describe('spot-check plan', () => {
     expect(precision).toBeLessThanOrEqual(COARSEST_SPOT_CHECK_PRECISION);
     const { seconds } = expectedTransferMatrixRun({ dimension: 3, width: 10, precision });
     expect(seconds).toBeLessThanOrEqual(SPOT_CHECK_SECONDS_PER_POINT * 1.01);
+    expect(String(precision)).toMatch(/^0\.0\d{1,2}$/);
   });
 
   it('should give a reason instead of points for what the kernel does not compute', () => {

@@ -89,7 +89,7 @@ export function planSpotCheck(campaign: { model: string; dimension: number; symm
   return {
     targets: [...picked].sort((a, b) => a - b).map((i) => {
       const p = ordered[i]!;
-      return { dimension, L, W: p.W, E: p.E, reported: p.value, reportedErr: p.err, precision: Math.max(p.err / p.value, finest) };
+      return { dimension, L, W: p.W, E: p.E, reported: p.value, reportedErr: p.err, precision: roundUpToTwoFigures(Math.max(p.err / p.value, finest)) };
     }),
   };
 }
@@ -98,6 +98,12 @@ export function planSpotCheck(campaign: { model: string; dimension: number; symm
 function finestAffordablePrecision(dimension: 1 | 2 | 3, L: number): number {
   const { operationsPerSlice } = expectedTransferMatrixRun({ dimension, width: L, slices: 1 });
   return Math.sqrt((L * operationsPerSlice) / (SPOT_CHECK_SECONDS_PER_POINT * CONSERVATIVE_OPERATIONS_PER_SECOND));
+}
+
+/** 0.0146303 -> 0.015: a precision a person can type back into `localis tmm`, never finer than asked. */
+function roundUpToTwoFigures(x: number): number {
+  const scale = 10 ** (Math.floor(Math.log10(x)) - 1);
+  return Number((Math.ceil(x / scale - 1e-9) * scale).toPrecision(2));
 }
 
 function mostCommon(values: number[]): number {
