@@ -52,6 +52,11 @@ export const Settings = z.object({
   MAIL_FROM: z.string().default('Localis <office@coldwater-network.example>'),
 
   STRIPE_PORT: port.default(12111),
+  /** The Stripe API (test mode); locally the fake on STRIPE_PORT. Unset: http://127.0.0.1:STRIPE_PORT. */
+  STRIPE_API_URL: z.union([z.url(), z.literal('')]).default(''),
+  STRIPE_SECRET_KEY: z.string().regex(/^sk_test_/, 'STRIPE_SECRET_KEY must be a test-mode key (sk_test_…)').default('sk_test_localis_fake_key'),
+  /** Signs the webhook events Stripe sends to /api/v1/webhooks/stripe. */
+  STRIPE_WEBHOOK_SECRET: z.string().regex(/^whsec_/, 'STRIPE_WEBHOOK_SECRET starts with whsec_').default('whsec_localis_fake_webhook_secret'),
 
   SESSION_SECRET: z.string().min(16, 'SESSION_SECRET needs at least 16 characters').default('local-session-secret-change-me'),
   SESSION_HOURS: z.coerce.number().min(1).max(24 * 30).default(12),
