@@ -1,4 +1,4 @@
-import type { Analysis, Archive, Role, SpotCheck, SpotCheckRow } from '@localis/shared';
+import type { Analysis, Archive, Role, SpotCheck } from '@localis/shared';
 import { flushPromises, type VueWrapper } from '@vue/test-utils';
 import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
 import { useSessionStore } from '../../stores/session.store';
@@ -6,6 +6,7 @@ import { jsonResponse as json, notServed, stubFetch } from '../../test/fetch-stu
 import { mountPage, resetTestPage } from '../../test/mount-in-app';
 import CampaignAnalysisView from './campaign-analysis-view.vue';
 import { analysisFixture } from './lib/analysis-fixture';
+import { spotCheckFixture } from './lib/spot-check-fixture';
 import { archiveFixture } from './test/archive-store-fake';
 import { CAN_NOTHING, campaignFixture, testRouter } from './test/campaign-fixture';
 
@@ -26,45 +27,6 @@ const latest = analysisFixture({
   request: { orders: { nr: 2, ni: 0, mr: 1, mi: 0 }, bootstrap: 20 },
 });
 latest.result!.model.chosenBy = 'user';
-
-function spotCheckRow(overrides: Partial<SpotCheckRow> = {}): SpotCheckRow {
-  return {
-    L: 6,
-    W: 15,
-    E: 0,
-    reported: 0.5734,
-    reportedErr: 0.0021,
-    recomputed: 0.5751,
-    recomputedErr: 0.0029,
-    z: 0.4747,
-    flagged: false,
-    dimension: 3,
-    precision: 0.005,
-    seed: 2718281,
-    slices: 48_000,
-    seconds: 11.2,
-    ...overrides,
-  };
-}
-
-/** A spot-check as the api answers: done, three points of L = 6, the middle one beyond 3 standard errors. */
-function spotCheckFixture(overrides: Partial<SpotCheck> = {}): SpotCheck {
-  return {
-    id: '9a8b7c6d-5e4f-4a3b-8c2d-1e0f9a8b7c6d',
-    campaignId: campaign.id,
-    archiveId: '7c1d2e3f-4a5b-4c6d-8e7f-9a0b1c2d3e4f',
-    archiveFileName: 'w15-18-L6-16.tar.gz',
-    state: 'done',
-    progress: { done: 3, total: 3 },
-    rows: [spotCheckRow(), spotCheckRow({ W: 16.5, reported: 0.61, recomputed: 0.5951, z: -4.1, flagged: true }), spotCheckRow({ W: 18, z: 1.2 })],
-    flagged: 1,
-    reason: null,
-    createdAt: '2027-03-01T09:22:00.000Z',
-    startedAt: '2027-03-01T09:22:01.000Z',
-    finishedAt: '2027-03-01T09:22:40.000Z',
-    ...overrides,
-  };
-}
 
 /** The api's analysis routes in process: the list, one analysis, and POST, which queues. */
 class AnalysisApiFake {
@@ -362,6 +324,17 @@ describe('CampaignAnalysisView', { timeout: 20_000 }, () => {
       expect(check.findAll('[data-testid="spot-check-copy"]')).toHaveLength(3);
     });
 
+    it('should copy a point’s command and say so', async () => {
+      const writeText = vi.fn().mockResolvedValue(undefined);
+      vi.stubGlobal('navigator', { ...navigator, clipboard: { writeText } });
+      api.spotChecks = [spotCheckFixture()];
+      const { wrapper } = await mountAnalysis();
+      await wrapper.findAll('[data-testid="spot-check-copy"]')[1].trigger('click');
+      await flushPromises();
+      expect(writeText).toHaveBeenCalledExactlyOnceWith('localis tmm --dim 3 --width 6 --disorder 16.5 --energy 0 --precision 0.005 --seed 2718281');
+      expect(document.body.textContent).toContain('Command copied');
+    });
+
     it('should say why the kernel cannot check an archive, or why a check failed', async () => {
       api.spotChecks = [
         spotCheckFixture({ id: '1b2c3d4e-5f6a-4b7c-8d9e-0f1a2b3c4d5e', state: 'not-applicable', rows: [], flagged: 0, progress: null, reason: 'the kernel has real hopping (class AI); this campaign is in class AII' }),
@@ -410,6 +383,7 @@ describe('CampaignAnalysisView', { timeout: 20_000 }, () => {
       const files = captureDownloads();
       api.spotChecks = [spotCheckFixture()];
       const { wrapper } = await mountAnalysis();
+      expect(wrapper.get('[data-testid="download-spot-checks-csv"]').attributes('aria-label')).toBe('Download the spot-checks as CSV');
       await wrapper.get('[data-testid="download-spot-checks-csv"]').trigger('click');
       await wrapper.get('[data-testid="download-spot-checks-json"]').trigger('click');
       expect(files.map((f) => f.name)).toEqual(['localis-critical-disorder-of-the-3d-anderson-model-spot-checks.csv', 'localis-critical-disorder-of-the-3d-anderson-model-spot-checks.json']);

@@ -1,39 +1,35 @@
 import type { Archive } from '@localis/shared';
-import { computed, ref, watch, type Ref } from 'vue';
+import { computed, type Ref } from 'vue';
 import { archivesApi } from '../../../api/archives.api';
 import { useApiErrorToast } from '../../../composables/use-api-error-toast';
-import { usePolling } from '../../../composables/use-polling';
-import { isAbort, latestOnly } from '../../../stores/latest-only';
+import { usePolledList } from '../../../composables/use-polled-list';
 import { MOVING_STATES } from '../lib/archive-format';
 
 /** Every 2 s while an archive waits for or is in its check: the worker takes seconds, not minutes. */
 const POLL_MS = 2000;
 
 /**
+ * Received and checking archives settle within seconds. An upload from another browser changes
+ * only when that browser completes it (or cancels, or a week passes), so it is not polled for.
+ */
+function isSettling(archive: Archive): boolean {
+  return MOVING_STATES.includes(archive.state) && archive.state !== 'uploading';
+}
+
+/**
  * A campaign's archives, newest first, kept live: while any is waiting for or in its check, the list is asked for again every two seconds, and the asking stops once all are settled.
  */
 export function useCampaignArchives(campaignId: Ref<string>) {
-  const items = ref<Archive[]>([]);
-  const loaded = ref(false);
-  const failed = ref(false);
   const showApiError = useApiErrorToast();
-  const latest = latestOnly();
-
-  async function load(): Promise<void> {
-    const { signal, isCurrent } = latest.begin();
-    try {
-      const { items: list } = await archivesApi.list(campaignId.value, signal);
-      if (!isCurrent()) return;
-      items.value = [...list].sort((a, b) => b.createdAt.localeCompare(a.createdAt));
-      loaded.value = true;
-      failed.value = false;
-    } catch (error) {
-      if (isAbort(error) || !isCurrent()) return;
-      // A failed poll says nothing until it happens on a page that shows nothing yet.
-      if (!loaded.value) showApiError(error, 'The archives could not be loaded');
-      failed.value = !loaded.value;
-    }
-  }
+  const list = usePolledList<Archive>({
+    owner: campaignId,
+    fetchList: (id, signal) => archivesApi.list(id, signal),
+    isMoving: isSettling,
+    intervalMs: POLL_MS,
+    // Toasted only while the page shows nothing yet: a failed poll keeps quiet.
+    onFirstLoadFailure: (error) => showApiError(error, 'The archives could not be loaded'),
+  });
+  const { items } = list;
 
   /** An archive the page changed (completed, withdrawn): shown at once, without waiting for a poll. */
   function put(archive: Archive): void {
@@ -41,20 +37,5 @@ export function useCampaignArchives(campaignId: Ref<string>) {
     items.value = known ? items.value.map((a) => (a.id === archive.id ? archive : a)) : [archive, ...items.value];
   }
 
-  // Received and checking archives settle within seconds. An upload from another browser changes
-  // only when that browser completes it (or cancels, or a week passes), so it is not polled for.
-  const moving = computed(() => items.value.some((a) => MOVING_STATES.includes(a.state) && a.state !== 'uploading'));
-
-  watch(
-    campaignId,
-    () => {
-      loaded.value = false;
-      items.value = [];
-      void load();
-    },
-    { immediate: true },
-  );
-  usePolling({ active: () => loaded.value && moving.value, poll: load, intervalMs: POLL_MS });
-
-  return { items, loaded, failed, moving, load, put };
+  return { ...list, moving: computed(() => list.moving.value.length > 0), put };
 }

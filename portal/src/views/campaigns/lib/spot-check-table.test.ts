@@ -1,6 +1,7 @@
-import type { SpotCheck, SpotCheckRow } from '@localis/shared';
+import type { SpotCheck } from '@localis/shared';
 import { describe, expect, it } from 'vitest';
 import { tableCsv } from './analysis-export';
+import { spotCheckFixture as check, spotCheckRowFixture as row } from './spot-check-fixture';
 import {
   campaignSpotCheckSummary,
   formatWithError,
@@ -16,48 +17,10 @@ import {
 
 const CAMPAIGN = '3a4b5c6d-7e8f-4a0b-9c1d-2e3f4a5b6c7d';
 
-function row(overrides: Partial<SpotCheckRow> = {}): SpotCheckRow {
-  return {
-    L: 6,
-    W: 16.5,
-    E: 0,
-    reported: 0.5734,
-    reportedErr: 0.0021,
-    recomputed: 0.5751,
-    recomputedErr: 0.0029,
-    z: 0.4747,
-    flagged: false,
-    dimension: 3,
-    precision: 0.005,
-    seed: 2718281,
-    slices: 48_000,
-    seconds: 11.2,
-    ...overrides,
-  };
-}
-
-function check(overrides: Partial<SpotCheck> = {}): SpotCheck {
-  return {
-    id: '9a8b7c6d-5e4f-4a3b-8c2d-1e0f9a8b7c6d',
-    campaignId: CAMPAIGN,
-    archiveId: '7c1d2e3f-4a5b-4c6d-8e7f-9a0b1c2d3e4f',
-    archiveFileName: 'w15-18-L6-16.tar.gz',
-    state: 'done',
-    progress: { done: 3, total: 3 },
-    rows: [row(), row({ W: 17.25, recomputed: 0.5, z: -3.4, flagged: true }), row({ W: 18 })],
-    flagged: 1,
-    reason: null,
-    createdAt: '2027-03-01T09:22:00.000Z',
-    startedAt: '2027-03-01T09:22:01.000Z',
-    finishedAt: '2027-03-01T09:22:40.000Z',
-    ...overrides,
-  };
-}
-
 describe('spot-check-table', () => {
   describe('the command', () => {
     it('should repeat the point with localis tmm, every option the kernel was given', () => {
-      expect(spotCheckCommand(row())).toBe('localis tmm --dim 3 --width 6 --disorder 16.5 --energy 0 --precision 0.005 --seed 2718281');
+      expect(spotCheckCommand(row())).toBe('localis tmm --dim 3 --width 6 --disorder 15 --energy 0 --precision 0.005 --seed 2718281');
     });
 
     it('should write numbers as the CLI reads them: every digit, an ASCII minus, exponents as JavaScript writes them', () => {
@@ -117,17 +80,17 @@ describe('spot-check-table', () => {
     it('should hold every row of every archive, newest archive first, with the raw numbers and the command', () => {
       expect(table.rows).toHaveLength(4);
       expect(table.rows.map((r) => r.archive)).toEqual(['L8, "second".tar.gz', 'w15-18-L6-16.tar.gz', 'w15-18-L6-16.tar.gz', 'w15-18-L6-16.tar.gz']);
-      expect(table.rows[2]).toMatchObject({ W: 17.25, z: -3.4, flagged: true, command: spotCheckCommand(row({ W: 17.25 })) });
+      expect(table.rows[2]).toMatchObject({ W: 16.5, z: -4.1, flagged: true, command: spotCheckCommand(row({ W: 16.5 })) });
     });
 
     it('should write CSV with plain keys as the header and quote what needs it (RFC 4180)', () => {
       const lines = tableCsv(table).split('\r\n');
       expect(lines[0]).toBe('archive,archiveId,L,W,E,reported,reportedErr,recomputed,recomputedErr,z,flagged,dimension,precision,seed,slices,seconds,command');
       expect(lines[1]).toBe(
-        '"L8, ""second"".tar.gz",2c3d4e5f-6a7b-4c8d-9e0f-1a2b3c4d5e6f,8,16.5,0,0.5734,0.0021,0.5751,0.0029,0.4747,false,3,0.005,2718281,48000,11.2,' +
-          'localis tmm --dim 3 --width 8 --disorder 16.5 --energy 0 --precision 0.005 --seed 2718281',
+        '"L8, ""second"".tar.gz",2c3d4e5f-6a7b-4c8d-9e0f-1a2b3c4d5e6f,8,15,0,0.5734,0.0021,0.5751,0.0029,0.4747,false,3,0.005,2718281,48000,11.2,' +
+          'localis tmm --dim 3 --width 8 --disorder 15 --energy 0 --precision 0.005 --seed 2718281',
       );
-      expect(lines[3]).toContain(',-3.4,true,');
+      expect(lines[3]).toContain(',-4.1,true,');
       expect(lines).toHaveLength(6);
     });
 
