@@ -3,10 +3,12 @@ import { loadSettings } from '@localis/shared';
 import { startOidcFake } from './oidc/oidc-fake';
 import { startS3Fake } from './s3/s3-fake';
 import { startMailFake } from './mail/mail-fake';
+import { startStripeFake } from './stripe/stripe-fake';
 
 /**
  * Runs the local stand-ins for the hosted services, each a real server on loopback:
- * identity provider (OIDC), object store (S3) and mail (SMTP + inbox).
+ * identity provider (OIDC), object store (S3), mail (SMTP + inbox) and payments (Stripe API,
+ * hosted payment pages, webhooks to the app).
  */
 const s = loadSettings(process.env);
 const closers: Array<() => Promise<void>> = [];
@@ -26,7 +28,28 @@ async function main() {
   closers.push(s3.close);
   const mail = await startMailFake({ host: s.SMTP_HOST, smtpPort: s.SMTP_PORT, inboxPort: s.MAIL_INBOX_PORT });
   closers.push(mail.close);
-  console.log(`fakes ready: oidc ${s.OIDC_ISSUER}, s3 ${s.S3_ENDPOINT}, smtp ${s.SMTP_HOST}:${s.SMTP_PORT} (inbox http://${s.SMTP_HOST}:${s.MAIL_INBOX_PORT})`);
+  const stripe = await startPaymentsFake();
+  console.log(
+    `fakes ready: oidc ${s.OIDC_ISSUER}, s3 ${s.S3_ENDPOINT}, smtp ${s.SMTP_HOST}:${s.SMTP_PORT} (inbox http://${s.SMTP_HOST}:${s.MAIL_INBOX_PORT}), ` +
+      (stripe ? `stripe ${stripe.url} (webhooks to ${stripe.webhookUrl})` : `stripe not started (STRIPE_API_URL is ${s.STRIPE_API_URL})`),
+  );
+}
+
+/** The Stripe fake, unless STRIPE_API_URL points the app at a Stripe elsewhere (its test mode). */
+async function startPaymentsFake(): Promise<{ url: string; webhookUrl: string } | undefined> {
+  const apiUrl = s.STRIPE_API_URL || `http://127.0.0.1:${s.STRIPE_PORT}`;
+  if (!['127.0.0.1', 'localhost', '[::1]'].includes(new URL(apiUrl).hostname)) return undefined;
+  const webhookUrl = `${s.PUBLIC_URL.replace(/\/+$/, '')}/api/v1/webhooks/stripe`;
+  const stripe = await startStripeFake({
+    host: '127.0.0.1',
+    port: s.STRIPE_PORT,
+    secretKey: s.STRIPE_SECRET_KEY,
+    webhookUrl,
+    webhookSecret: s.STRIPE_WEBHOOK_SECRET,
+    publicUrl: apiUrl,
+  });
+  closers.push(stripe.close);
+  return { url: stripe.url, webhookUrl };
 }
 
 async function shutdown() {

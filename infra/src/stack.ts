@@ -48,12 +48,13 @@ export async function startInfrastructure(s: Settings, env: Record<string, strin
   step(`Redis on ${s.REDIS_HOST}:${s.REDIS_PORT}`);
   await startRedis(s);
   if (opts.fakes !== false) {
-    step('local fakes: identity provider, object store, mail');
+    step('local fakes: identity provider, object store, mail, payments');
     group.start('fakes', TSX, [join(ROOT, 'infra', 'fakes', 'run-fakes.ts')], env);
     await Promise.all([
       waitForHttp(`${s.OIDC_ISSUER}/.well-known/openid-configuration`, 'the identity-provider fake'),
       waitForPort('127.0.0.1', s.S3_PORT, 'the object-store fake'),
       waitForPort(s.SMTP_HOST, s.SMTP_PORT, 'the mail fake'),
+      waitForHttp(`http://127.0.0.1:${s.STRIPE_PORT}/_fake/health`, 'the Stripe fake'),
     ]);
   }
   step('migrations');

@@ -20,3 +20,4 @@ export * from './notifications';
 export * from './archives';
 export * from './provenance';
 export * from './analyses';
+export * from './billing';

@@ -37,6 +37,7 @@ import { archivesRoutes } from './archives/archives.router';
 import { provenanceRoutes } from './provenance/provenance.router';
 import { analysesRoutes } from './analyses/analyses.router';
 import { spotChecksRoutes } from './spot-checks/spot-checks.router';
+import { rateCardsRoutes } from './rate-cards/rate-cards.router';
 import { notificationsRoutes } from './notifications/notifications.router';
 import { idempotency } from './http/idempotency';
 
@@ -72,6 +73,7 @@ export function buildRoutes(deps: AppDeps, authController: ReturnType<typeof cre
     ...provenanceRoutes(services.provenance, services.archives.verifiedIdBySha256),
     ...analysesRoutes(services.analyses),
     ...spotChecksRoutes(services.spotChecks),
+    ...rateCardsRoutes(services.rateCards),
   ];
   let openapi: unknown;
   routes.push({

@@ -16,6 +16,7 @@ import { createObjectStore } from './archives/object-store';
 import { createProvenanceService } from './provenance/provenance.service';
 import { createAnalysesService } from './analyses/analyses.service';
 import { createSpotChecksService } from './spot-checks/spot-checks.service';
+import { createRateCardsService } from './rate-cards/rate-cards.service';
 
 /** The composition root of the rules: seeds, the api and the worker all go through these. */
 export function createServices(db: Database, s: Settings) {
@@ -39,6 +40,7 @@ export function createServices(db: Database, s: Settings) {
     provenance: createProvenanceService(db, s, campaigns),
     analyses: createAnalysesService(db, campaigns),
     spotChecks: createSpotChecksService(campaigns),
+    rateCards: createRateCardsService(db),
   };
 }
 export type Services = ReturnType<typeof createServices>;

@@ -83,6 +83,7 @@ beforeAll(async () => {
     freshDraft,
     freshSubmitted,
     institutionA: instA.id,
+    partnerId: partner.id,
     groupA: groupA.id,
     researcherId: researcher.id,
     piId: pi.id,

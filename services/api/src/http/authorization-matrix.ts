@@ -11,6 +11,8 @@ export type Actor = (typeof ACTORS)[number];
 /** The records the rows point at, made fresh for each run. */
 export interface Fixtures {
   institutionA: string;
+  /** A partner institution, whose billing contact is the billing actor. */
+  partnerId: string;
   groupA: string;
   researcherId: string;
   piId: string;
@@ -81,6 +83,9 @@ const only = (status: number, allowed: Actor[], others = 403) => ({
 });
 
 const fixed = (p: string) => () => p;
+/** Rate cards change forward in time: each row's card starts a day after the one before. */
+let rateCardDays = 0;
+const nextRateCardDay = () => new Date(Date.UTC(2031, 0, 1 + rateCardDays++)).toISOString().slice(0, 10);
 
 /** A tiny run with a job id of its own, so every request records a new one. */
 const tinyRun = () => ({
@@ -133,6 +138,11 @@ export const MATRIX: MatrixRow[] = [
     expect: only(201, ['admin']),
   },
   { method: 'PATCH', route: '/api/v1/institutions/:id', path: (f) => `/api/v1/institutions/${f.institutionA}`, body: () => ({ country: 'DE' }), expect: only(200, ['admin']) },
+  { method: 'GET', route: '/api/v1/institutions/:id/rate-cards', path: (f) => `/api/v1/institutions/${f.partnerId}/rate-cards`, expect: only(200, ['admin', 'billing']) },
+  {
+    method: 'POST', route: '/api/v1/institutions/:id/rate-cards', path: (f) => `/api/v1/institutions/${f.partnerId}/rate-cards`,
+    body: () => ({ currency: 'EUR', unitPriceMinor: 12, taxRateBasisPoints: 2100, effectiveFrom: nextRateCardDay() }), expect: only(201, ['admin']),
+  },
 
   { method: 'GET', route: '/api/v1/groups', path: fixed('/api/v1/groups'), expect: signedIn(200) },
   { method: 'GET', route: '/api/v1/groups/:id', path: (f) => `/api/v1/groups/${f.groupA}`, expect: only(200, ['admin', 'pi', 'researcher']) },

@@ -13,8 +13,9 @@ import { Run, LedgerEntry, UsageAlert } from './ledger.model';
 import { Notification, IdempotencyKey } from './notification.model';
 import { AnalysisRow, ArchiveRow, ProvenanceEntryRow, ProvenanceTreeHeadRow } from './archive.model';
 import { SpotCheckRecord } from './spot-check.model';
+import { InvoiceEntryRow, InvoiceNumberRow, InvoiceRow, InvoiceRunRow, RateCardRow, StripeEventRow } from './billing.model';
 
-export { Institution, Person, ResearchGroup, GroupMembership, RoleGrant, ApiToken, AuditLog, OutboxMessage, Round, RoundPool, Campaign, CampaignEvent, ReviewAssignment, Review, Run, LedgerEntry, UsageAlert, Notification, IdempotencyKey, ArchiveRow, ProvenanceEntryRow, ProvenanceTreeHeadRow, AnalysisRow, SpotCheckRecord };
+export { Institution, Person, ResearchGroup, GroupMembership, RoleGrant, ApiToken, AuditLog, OutboxMessage, Round, RoundPool, Campaign, CampaignEvent, ReviewAssignment, Review, Run, LedgerEntry, UsageAlert, Notification, IdempotencyKey, ArchiveRow, ProvenanceEntryRow, ProvenanceTreeHeadRow, AnalysisRow, SpotCheckRecord, RateCardRow, InvoiceRunRow, InvoiceNumberRow, InvoiceRow, InvoiceEntryRow, StripeEventRow };
 
 export interface Models {
   Institution: typeof Institution;
@@ -41,6 +42,12 @@ export interface Models {
   ProvenanceTreeHeadRow: typeof ProvenanceTreeHeadRow;
   AnalysisRow: typeof AnalysisRow;
   SpotCheckRecord: typeof SpotCheckRecord;
+  RateCardRow: typeof RateCardRow;
+  InvoiceRunRow: typeof InvoiceRunRow;
+  InvoiceNumberRow: typeof InvoiceNumberRow;
+  InvoiceRow: typeof InvoiceRow;
+  InvoiceEntryRow: typeof InvoiceEntryRow;
+  StripeEventRow: typeof StripeEventRow;
 }
 
 /**
@@ -72,6 +79,7 @@ export function initModels(sequelize: Sequelize): Models {
   ProvenanceTreeHeadRow.initModel(sequelize);
   AnalysisRow.initModel(sequelize);
   SpotCheckRecord.initModel(sequelize);
+  for (const m of [RateCardRow, InvoiceRunRow, InvoiceNumberRow, InvoiceRow, InvoiceEntryRow, StripeEventRow]) m.initModel(sequelize);
 
   Person.belongsTo(Institution, { foreignKey: 'institutionId', as: 'institution' });
   Person.hasMany(RoleGrant, { foreignKey: 'personId', as: 'roleGrants' });
@@ -98,5 +106,7 @@ export function initModels(sequelize: Sequelize): Models {
   ArchiveRow.belongsTo(Person, { foreignKey: 'withdrawnByPersonId', as: 'withdrawnBy' });
   AnalysisRow.belongsTo(Person, { foreignKey: 'requestedByPersonId', as: 'requestedBy' });
   SpotCheckRecord.belongsTo(ArchiveRow, { foreignKey: 'archiveId', as: 'archive' });
-  return { Institution, Person, ResearchGroup, GroupMembership, RoleGrant, ApiToken, AuditLog, OutboxMessage, Round, RoundPool, Campaign, CampaignEvent, ReviewAssignment, Review, Run, LedgerEntry, UsageAlert, Notification, IdempotencyKey, ArchiveRow, ProvenanceEntryRow, ProvenanceTreeHeadRow, AnalysisRow, SpotCheckRecord };
+  RateCardRow.belongsTo(Person, { foreignKey: 'createdByPersonId', as: 'createdBy' });
+  InvoiceRow.belongsTo(Institution, { foreignKey: 'institutionId', as: 'institution' });
+  return { Institution, Person, ResearchGroup, GroupMembership, RoleGrant, ApiToken, AuditLog, OutboxMessage, Round, RoundPool, Campaign, CampaignEvent, ReviewAssignment, Review, Run, LedgerEntry, UsageAlert, Notification, IdempotencyKey, ArchiveRow, ProvenanceEntryRow, ProvenanceTreeHeadRow, AnalysisRow, SpotCheckRecord, RateCardRow, InvoiceRunRow, InvoiceNumberRow, InvoiceRow, InvoiceEntryRow, StripeEventRow };
 }

@@ -7,6 +7,8 @@ export class Institution extends Model<InferAttributes<Institution>, InferCreati
   declare kind: InstitutionKind;
   declare country: string;
   declare billingEmail: string | null;
+  /** The partner's customer at Stripe, made when its first invoice is issued. */
+  declare stripeCustomerId: CreationOptional<string | null>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
 
@@ -18,6 +20,7 @@ export class Institution extends Model<InferAttributes<Institution>, InferCreati
         kind: { type: DataTypes.TEXT, allowNull: false },
         country: { type: DataTypes.CHAR(2), allowNull: false },
         billingEmail: { type: DataTypes.TEXT, allowNull: true },
+        stripeCustomerId: { type: DataTypes.TEXT, allowNull: true },
         createdAt: DataTypes.DATE,
         updatedAt: DataTypes.DATE,
       },
