@@ -10,8 +10,14 @@ describe('invoice schemas', () => {
       expect(InvoiceRunInput.parse({ from: '2027-01-01', to: '2027-03-31' })).toEqual({ from: '2027-01-01', to: '2027-03-31' });
     });
 
-    it('should accept a single day when from and to are the same', () => {
-      expect(issuesOf(InvoiceRunInput, { from: '2027-03-31', to: '2027-03-31' })).toEqual([]);
+    it('should accept one month, February of a leap year included', () => {
+      expect(issuesOf(InvoiceRunInput, { from: '2027-03-01', to: '2027-03-31' })).toEqual([]);
+      expect(issuesOf(InvoiceRunInput, { from: '2028-02-01', to: '2028-02-29' })).toEqual([]);
+    });
+
+    it('should refuse a period that cuts a month, since tiers count whole calendar months', () => {
+      expect(issuesOf(InvoiceRunInput, { from: '2027-03-02', to: '2027-03-31' })).toEqual([[['from'], 'an invoice run starts on the first day of a month (tiers count whole calendar months)']]);
+      expect(issuesOf(InvoiceRunInput, { from: '2027-03-01', to: '2027-03-30' })).toEqual([[['to'], 'an invoice run ends on the last day of a month (tiers count whole calendar months)']]);
     });
 
     it('should refuse at to when the period ends before it starts', () => {
@@ -22,9 +28,9 @@ describe('invoice schemas', () => {
       expect(issuesOf(InvoiceRunInput, { from: '2028-01-01', to: '2028-12-31' })).toEqual([]);
     });
 
-    it('should refuse 367 days and say how long the period is', () => {
-      expect(issuesOf(InvoiceRunInput, { from: '2027-01-01', to: '2028-01-02' })).toEqual([
-        [['to'], 'an invoice run covers at most 366 days; this period has 367: run it in shorter periods'],
+    it('should refuse more than 366 days and say how long the period is', () => {
+      expect(issuesOf(InvoiceRunInput, { from: '2027-01-01', to: '2028-01-31' })).toEqual([
+        [['to'], 'an invoice run covers at most 366 days; this period has 396: run it in shorter periods'],
       ]);
     });
 

@@ -55,6 +55,14 @@ export const Invoice = z
     paidAt: z.iso.datetime().nullable(),
     voidReason: z.string().nullable(),
     paymentReference: z.string().nullable(),
+    /** Of the latest payment attempt through Stripe; null before one. */
+    paymentState: z.enum(['pending', 'failed', 'succeeded']).nullable(),
+    /** Issued, unpaid and past its due date. */
+    overdue: z.boolean(),
+    /** The credit note's number when an issued invoice was voided. */
+    creditNoteNumber: z.string().nullable(),
+    /** Whether its PDF is stored (issued invoices): `GET /invoices/:id/pdf`. */
+    hasPdf: z.boolean(),
     createdAt: z.iso.datetime(),
   })
   .meta({ id: 'Invoice' });
@@ -66,6 +74,16 @@ export const MAX_INVOICE_RUN_DAYS = 366;
 const MS_PER_DAY = 86_400_000;
 const daysFromTo = (from: string, to: string) => (Date.parse(`${to}T00:00:00Z`) - Date.parse(`${from}T00:00:00Z`)) / MS_PER_DAY + 1;
 
+const isCalendarDay = (day: string) => {
+  const t = Date.parse(`${day}T00:00:00Z`);
+  return Number.isFinite(t) && new Date(t).toISOString().slice(0, 10) === day;
+};
+
+const isLastDayOfMonth = (day: string) => {
+  const next = new Date(Date.parse(`${day}T00:00:00Z`) + MS_PER_DAY);
+  return Number.isFinite(next.getTime()) && next.getUTCDate() === 1;
+};
+
 export const InvoiceRunInput = z
   .object({
     from: z.iso.date({ message: 'from must be a date, e.g. 2027-01-01' }),
@@ -74,7 +92,13 @@ export const InvoiceRunInput = z
   .strict()
   .superRefine(({ from, to }, ctx) => {
     // Dates as YYYY-MM-DD compare correctly as text.
-    if (to < from) {
+    // A date the calendar lacks has its own message from the field.
+    if (!isCalendarDay(from) || !isCalendarDay(to)) return;
+    if (!/-01$/.test(from)) {
+      ctx.addIssue({ code: 'custom', path: ['from'], message: 'an invoice run starts on the first day of a month (tiers count whole calendar months)' });
+    } else if (!isLastDayOfMonth(to)) {
+      ctx.addIssue({ code: 'custom', path: ['to'], message: 'an invoice run ends on the last day of a month (tiers count whole calendar months)' });
+    } else if (to < from) {
       ctx.addIssue({ code: 'custom', path: ['to'], message: `the period must end on or after its first day (${from})` });
     } else if (daysFromTo(from, to) > MAX_INVOICE_RUN_DAYS) {
       ctx.addIssue({
@@ -98,3 +122,41 @@ export const VoidInvoiceInput = z
   .strict()
   .meta({ id: 'VoidInvoiceInput' });
 export type VoidInvoiceInput = z.infer<typeof VoidInvoiceInput>;
+
+export const InvoiceList = z.object({ items: z.array(Invoice) }).meta({ id: 'InvoiceList' });
+export type InvoiceList = z.infer<typeof InvoiceList>;
+
+export const InvoiceListQuery = z
+  .object({
+    state: InvoiceState.optional(),
+    institutionId: z.uuid('institutionId must be an institution id').optional(),
+    /** Only issued invoices past their due date. */
+    overdue: z.enum(['true', 'false']).transform((v) => v === 'true').optional(),
+  })
+  .strict();
+export type InvoiceListQuery = z.infer<typeof InvoiceListQuery>;
+
+export const INVOICE_RUN_STATES = ['queued', 'running', 'done', 'failed'] as const;
+export const InvoiceRun = z
+  .object({
+    id: z.uuid(),
+    periodFrom: z.iso.date(),
+    periodTo: z.iso.date(),
+    state: z.enum(INVOICE_RUN_STATES),
+    /** Draft invoices made or brought up to date. */
+    drafted: z.number().int(),
+    error: z.string().nullable(),
+    createdAt: z.iso.datetime(),
+    finishedAt: z.iso.datetime().nullable(),
+  })
+  .meta({ id: 'InvoiceRun' });
+export type InvoiceRun = z.infer<typeof InvoiceRun>;
+export const InvoiceRunList = z.object({ items: z.array(InvoiceRun) }).meta({ id: 'InvoiceRunList' });
+export type InvoiceRunList = z.infer<typeof InvoiceRunList>;
+
+/** Where a billing contact pays an issued invoice (the payment provider's page). */
+export const PaymentLink = z.object({ url: z.url() }).meta({ id: 'PaymentLink' });
+export type PaymentLink = z.infer<typeof PaymentLink>;
+
+export const InvoiceRunJob = z.object({ runId: z.uuid() });
+export type InvoiceRunJob = z.infer<typeof InvoiceRunJob>;
