@@ -7,6 +7,8 @@ export const MailMessage = z.object({
   text: z.string().min(1),
   /** The same message as HTML, for mail readers that show it. */
   html: z.string().min(1).optional(),
+  /** Files from the object store, attached by the mail job (an invoice's PDF). */
+  attachments: z.array(z.object({ filename: z.string().min(1).max(200), objectKey: z.string().min(1), contentType: z.string().min(1) })).max(5).optional(),
   /** Makes the send idempotent: a retried job with the same key is not sent twice. */
   dedupeKey: z.string().min(1).max(200),
 });

@@ -9,10 +9,12 @@ export const QUEUES = {
   analyze: 'localis-analyze',
   /** Recomputes a few points of a verified archive with the transfer-matrix kernel. */
   spotCheck: 'localis-spot-check',
+  /** Drafts partner invoices for a period from the ledger. */
+  invoiceRun: 'localis-invoice-run',
   /** Gives new provenance entries their leaf indexes and signs a new tree head. */
   sequenceProvenance: 'localis-sequence-provenance',
 } as const;
 export type QueueName = (typeof QUEUES)[keyof typeof QUEUES];
 
 /** Kinds of outbox messages the dispatcher hands to the queues. */
-export const OUTBOX_KINDS = { mail: 'mail', verifyArchive: 'verify-archive', analyze: 'analyze', spotCheck: 'spot-check' } as const;
+export const OUTBOX_KINDS = { mail: 'mail', verifyArchive: 'verify-archive', analyze: 'analyze', spotCheck: 'spot-check', invoiceRun: 'invoice-run' } as const;

@@ -76,7 +76,9 @@ export const up: Migration['up'] = async ({ sequelize }) => {
         reminded_at timestamptz,
         created_at timestamptz NOT NULL DEFAULT now(),
         updated_at timestamptz NOT NULL DEFAULT now(),
-        CHECK ((state = 'draft') = (number IS NULL)),
+        -- Issued and paid invoices have their number; a draft has none; a voided draft never got one.
+        CHECK (state IN ('draft', 'void') OR number IS NOT NULL),
+        CHECK (state <> 'draft' OR number IS NULL),
         CHECK ((state = 'void') = (void_reason IS NOT NULL)),
         CHECK ((state = 'paid') = (paid_at IS NOT NULL))
       );

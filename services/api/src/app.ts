@@ -38,6 +38,7 @@ import { provenanceRoutes } from './provenance/provenance.router';
 import { analysesRoutes } from './analyses/analyses.router';
 import { spotChecksRoutes } from './spot-checks/spot-checks.router';
 import { rateCardsRoutes } from './rate-cards/rate-cards.router';
+import { invoicesRoutes } from './invoices/invoices.router';
 import { notificationsRoutes } from './notifications/notifications.router';
 import { idempotency } from './http/idempotency';
 
@@ -74,6 +75,7 @@ export function buildRoutes(deps: AppDeps, authController: ReturnType<typeof cre
     ...analysesRoutes(services.analyses),
     ...spotChecksRoutes(services.spotChecks),
     ...rateCardsRoutes(services.rateCards),
+    ...invoicesRoutes(services.invoices, services.stripeWebhook),
   ];
   let openapi: unknown;
   routes.push({
@@ -131,6 +133,8 @@ export function createApp(deps: AppDeps) {
   );
   // Scheduler accounting exports are larger than any other body (MAX_IMPORT_BYTES of CSV in JSON).
   app.use(`${API_PREFIX}/campaigns/:id/runs/import`, express.json({ limit: IMPORT_BODY_LIMIT }));
+  // Stripe signs the exact bytes it sends: its webhook keeps the raw body.
+  app.use(`${API_PREFIX}/webhooks/stripe`, express.raw({ type: () => true, limit: '1mb' }));
   app.use(express.json({ limit: s.BODY_LIMIT }));
 
   const PgStore = connectPgSimple(session);
@@ -158,7 +162,7 @@ export function createApp(deps: AppDeps) {
       ...(route.signIn ? [limits.signIn] : []),
       limits.token,
       authorize(route.access),
-      csrfProtection,
+      ...(route.csrf === false ? [] : [csrfProtection]),
       validate(route.request),
       ...(route.idempotency === false ? [] : [idempotency]),
       route.handler as (req: Request, res: Response, next: NextFunction) => unknown,

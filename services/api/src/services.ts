@@ -17,12 +17,18 @@ import { createProvenanceService } from './provenance/provenance.service';
 import { createAnalysesService } from './analyses/analyses.service';
 import { createSpotChecksService } from './spot-checks/spot-checks.service';
 import { createRateCardsService } from './rate-cards/rate-cards.service';
+import { createStripeClient } from './billing/stripe-client';
+import { createInvoicePayments } from './invoices/invoice-payments';
+import { createInvoicesService } from './invoices/invoices.service';
+import { createStripeWebhook } from './invoices/stripe-webhook';
 
 /** The composition root of the rules: seeds, the api and the worker all go through these. */
 export function createServices(db: Database, s: Settings) {
   const campaigns = createCampaignsService(db);
   const ledger = createLedgerService(db, campaigns);
   const objectStore = createObjectStore(s);
+  const stripe = createStripeClient(s);
+  const invoicePayments = createInvoicePayments(db, s, objectStore, stripe);
   return {
     people: createPeopleService(db, s.PUBLIC_URL),
     institutions: createInstitutionsService(db),
@@ -41,6 +47,9 @@ export function createServices(db: Database, s: Settings) {
     analyses: createAnalysesService(db, campaigns),
     spotChecks: createSpotChecksService(campaigns),
     rateCards: createRateCardsService(db),
+    invoicePayments,
+    invoices: createInvoicesService(db, invoicePayments),
+    stripeWebhook: createStripeWebhook(db, stripe, s.STRIPE_WEBHOOK_SECRET),
   };
 }
 export type Services = ReturnType<typeof createServices>;

@@ -41,10 +41,10 @@ export interface CampaignWorld {
  * One research group with a PI and a researcher, the office, two committee members, and a
  * round with a pool on its own machine: the records review, ledger and runs tests start from.
  */
-export async function makeCampaignWorld(t: TestApp, opts: { poolCoreHours?: number; overdraftPercent?: number; label?: string } = {}): Promise<CampaignWorld> {
+export async function makeCampaignWorld(t: TestApp, opts: { poolCoreHours?: number; overdraftPercent?: number; label?: string; institutionKind?: 'member' | 'partner' } = {}): Promise<CampaignWorld> {
   const label = opts.label ?? 'world';
   const machine = `${label}-${randomUUID().slice(0, 6)}`;
-  const inst = await createInstitution(t);
+  const inst = await createInstitution(t, opts.institutionKind ?? 'member');
   const otherInst = await createInstitution(t);
   const pi = await createPerson(t, { roles: ['pi', 'researcher'], institutionId: inst.id, label: `${label}-pi` });
   const researcher = await createPerson(t, { roles: ['researcher'], institutionId: inst.id, label: `${label}-researcher` });

@@ -58,6 +58,12 @@ export const Settings = z.object({
   /** Signs the webhook events Stripe sends to /api/v1/webhooks/stripe. */
   STRIPE_WEBHOOK_SECRET: z.string().regex(/^whsec_/, 'STRIPE_WEBHOOK_SECRET starts with whsec_').default('whsec_localis_fake_webhook_secret'),
 
+  /** Who issues the partners' invoices, as the PDF and the e-mails name them. */
+  BILLING_ISSUER_NAME: z.string().min(1).default('Consortium office'),
+  /** Postal address lines, separated by "|". */
+  BILLING_ISSUER_ADDRESS: z.string().default(''),
+  BILLING_ISSUER_VAT_ID: z.string().default(''),
+
   SESSION_SECRET: z.string().min(16, 'SESSION_SECRET needs at least 16 characters').default('local-session-secret-change-me'),
   SESSION_HOURS: z.coerce.number().min(1).max(24 * 30).default(12),
   SIGNIN_RATE_PER_MINUTE: z.coerce.number().int().min(1).default(30),

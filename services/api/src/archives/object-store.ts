@@ -4,6 +4,7 @@ import {
   CompleteMultipartUploadCommand,
   CreateMultipartUploadCommand,
   GetObjectCommand,
+  PutObjectCommand,
   HeadObjectCommand,
   ListPartsCommand,
   UploadPartCommand,
@@ -87,6 +88,15 @@ export function createObjectStore(settings: StorageSettings & { S3_BUCKET: strin
         if ((e as { $metadata?: { httpStatusCode?: number } }).$metadata?.httpStatusCode === 404) return null;
         throw errors.unavailable('The object store (reading an object)');
       }
+    },
+
+    /**
+     * A small object written whole (an invoice's PDF). Keys are written once: an existing object is
+     * left as it is, so a retried write never replaces what was stored and sent.
+     */
+    async putOnce(key: string, bytes: Uint8Array, contentType: string): Promise<void> {
+      if ((await this.sizeOf(key)) !== null) return;
+      await call('storing an object', () => client.send(new PutObjectCommand({ Bucket, Key: key, Body: bytes, ContentType: contentType, ContentLength: bytes.byteLength })));
     },
 
     downloadUrl: (key: string, fileName: string) =>

@@ -5,6 +5,7 @@ import type { RequestContext } from './principal';
 import { randomUUID } from 'node:crypto';
 import { CampaignInput, RunInput, TOKEN_SCOPES } from '@localis/shared';
 import { fullPath } from './route-registry';
+import { InvoiceRow, InvoiceRunRow } from '../db/models';
 
 let t: TestApp;
 let fixtures: Fixtures;
@@ -84,6 +85,12 @@ beforeAll(async () => {
     freshSubmitted,
     institutionA: instA.id,
     partnerId: partner.id,
+    invoiceId: await draftInvoice(partner.id),
+    freshDraftInvoice: () => draftInvoice(partner.id),
+    issuedInvoiceId: (await t.services.invoices.issue(as(admin), await draftInvoice(partner.id))).id,
+    closeInvoiceRuns: async () => {
+      await InvoiceRunRow.update({ state: 'failed', error: 'closed by the matrix', finishedAt: new Date() }, { where: { state: ['queued', 'running'] } });
+    },
     groupA: groupA.id,
     researcherId: researcher.id,
     piId: pi.id,
@@ -151,3 +158,15 @@ describe('authorization matrix', () => {
     );
   });
 });
+
+/** A draft invoice of EUR 1.21 (one line, 21 % VAT), as an invoice run would make it. */
+async function draftInvoice(institutionId: string): Promise<string> {
+  const card = { currency: 'EUR', unitPriceMinor: 10, tiers: [], discountBasisPoints: 0, taxRateBasisPoints: 2100, reverseCharge: false, paymentTermsDays: 30 };
+  const line = { campaignId: randomUUID(), campaignTitle: 'Matrix campaign', month: '2031-01', tier: null, description: 'Matrix campaign: 10 core-hours', coreHoursMilli: 10_000, unitPriceMinor: 10, amountMinor: 100, discountMinor: 0, taxMinor: 21 };
+  const row = await InvoiceRow.create({
+    institutionId, runId: null, number: null, currency: 'EUR', periodFrom: '2031-01-01', periodTo: '2031-01-31', rateCard: card, lines: [line],
+    subtotalMinor: 100, discountMinor: 0, taxMinor: 21, totalMinor: 121, issuedOn: null, dueOn: null, paidAt: null, voidedAt: null, voidReason: null,
+    creditNoteNumber: null, paymentReference: null, paymentState: null, stripeInvoiceId: null, hostedPaymentUrl: null, pdfObjectKey: null, remindedAt: null,
+  });
+  return row.id;
+}

@@ -13,6 +13,14 @@ export interface Fixtures {
   institutionA: string;
   /** A partner institution, whose billing contact is the billing actor. */
   partnerId: string;
+  /** A draft invoice of the partner, that rows read. */
+  invoiceId: string;
+  /** A new draft invoice of the partner. */
+  freshDraftInvoice(): Promise<string>;
+  /** An issued invoice of the partner (with its payment page). */
+  issuedInvoiceId: string;
+  /** Ends any open invoice run, so a row may start one. */
+  closeInvoiceRuns(): Promise<void>;
   groupA: string;
   researcherId: string;
   piId: string;
@@ -138,6 +146,17 @@ export const MATRIX: MatrixRow[] = [
     expect: only(201, ['admin']),
   },
   { method: 'PATCH', route: '/api/v1/institutions/:id', path: (f) => `/api/v1/institutions/${f.institutionA}`, body: () => ({ country: 'DE' }), expect: only(200, ['admin']) },
+  { method: 'GET', route: '/api/v1/invoices', path: fixed('/api/v1/invoices'), expect: only(200, ['admin', 'billing']) },
+  { method: 'GET', route: '/api/v1/invoices/:id', path: (f) => `/api/v1/invoices/${f.invoiceId}`, expect: only(200, ['admin', 'billing']) },
+  // A draft has no PDF: the office and the partner's billing contact get past the checks to that answer.
+  { method: 'GET', route: '/api/v1/invoices/:id/pdf', path: (f) => `/api/v1/invoices/${f.invoiceId}/pdf`, expect: only(409, ['admin', 'billing']) },
+  { method: 'GET', route: '/api/v1/invoice-runs', path: fixed('/api/v1/invoice-runs'), expect: only(200, ['admin']) },
+  { method: 'POST', route: '/api/v1/invoice-runs', path: fixed('/api/v1/invoice-runs'), before: (f) => f.closeInvoiceRuns(), body: () => ({ from: '2031-01-01', to: '2031-01-31' }), expect: only(202, ['admin']) },
+  { method: 'POST', route: '/api/v1/invoices/:id/issue', path: async (f) => `/api/v1/invoices/${await f.freshDraftInvoice()}/issue`, expect: only(200, ['admin']) },
+  { method: 'POST', route: '/api/v1/invoices/:id/void', path: async (f) => `/api/v1/invoices/${await f.freshDraftInvoice()}/void`, body: () => ({ reason: 'matrix' }), expect: only(200, ['admin']) },
+  { method: 'POST', route: '/api/v1/invoices/:id/pay', path: (f) => `/api/v1/invoices/${f.issuedInvoiceId}/pay`, expect: only(200, ['admin', 'billing']) },
+  // Public, proven by Stripe's signature: without one, every caller gets 400.
+  { method: 'POST', route: '/api/v1/webhooks/stripe', path: fixed('/api/v1/webhooks/stripe'), body: () => ({ id: 'evt_unsigned', type: 'invoice.paid' }), expect: all(400) },
   { method: 'GET', route: '/api/v1/institutions/:id/rate-cards', path: (f) => `/api/v1/institutions/${f.partnerId}/rate-cards`, expect: only(200, ['admin', 'billing']) },
   {
     method: 'POST', route: '/api/v1/institutions/:id/rate-cards', path: (f) => `/api/v1/institutions/${f.partnerId}/rate-cards`,

@@ -34,6 +34,8 @@ export interface RouteSpec {
   signIn?: boolean;
   /** `false` for answers that must never be stored or replayed (a new token's secret). */
   idempotency?: false;
+  /** `false` for a server-to-server route that proves itself another way (a signed webhook): no session, no CSRF token. */
+  csrf?: false;
   handler: (req: Request, res: Response, next: NextFunction) => Promise<unknown> | unknown;
 }
 

@@ -1,6 +1,8 @@
 import { createHash, randomUUID } from 'node:crypto';
 import nodemailer from 'nodemailer';
-import { MailMessage, QUEUES } from '@localis/shared';
+import { GetObjectCommand } from '@aws-sdk/client-s3';
+import { MailMessage, QUEUES, type Settings } from '@localis/shared';
+import { createS3Client } from '@localis/shared/node';
 import type { JobDefinition } from './job';
 
 const SENT_TTL_SECONDS = 30 * 86_400;
@@ -9,6 +11,21 @@ const SENDING_LEASE_MS = 60_000;
 const SMTP_TIMEOUT_MS = 20_000;
 /** Delete the lease only if it is still ours (it may have run out and been taken by a retry). */
 const RELEASE_IF_OURS = "if redis.call('get', KEYS[1]) == ARGV[1] then return redis.call('del', KEYS[1]) else return 0 end";
+
+/** Attachments are read from the object store when the mail is sent (they may be large; the queue holds only keys). */
+async function attachmentsOf(list: NonNullable<MailMessage['attachments']>, settings: Settings) {
+  const client = createS3Client(settings);
+  try {
+    return await Promise.all(
+      list.map(async (a) => {
+        const out = await client.send(new GetObjectCommand({ Bucket: settings.S3_BUCKET, Key: a.objectKey }));
+        return { filename: a.filename, contentType: a.contentType, content: Buffer.from(await out.Body!.transformToByteArray()) };
+      }),
+    );
+  } finally {
+    client.destroy();
+  }
+}
 
 /**
  * Send one e-mail. A retried job with the same dedupeKey is not sent again: the key is marked
@@ -52,6 +69,7 @@ export const mailJob: JobDefinition<typeof MailMessage> = {
         text: message.text,
         // Mail readers that show HTML take it; the others read the text part.
         ...(message.html ? { html: message.html } : {}),
+        ...(message.attachments?.length ? { attachments: await attachmentsOf(message.attachments, settings) } : {}),
         messageId: `<${keyHash.slice(0, 32)}@localis>`,
       });
       await redis.set(sentKey, info.messageId ?? '1', 'EX', SENT_TTL_SECONDS);
