@@ -8,12 +8,13 @@ import { ApiToken, Campaign, Institution, Person, ResearchGroup, Round } from '@
 import { GROUPS, INSTITUTIONS, PEOPLE } from './scenario';
 import { CAMPAIGNS, ROUNDS } from './campaigns-scenario';
 import { loadReviews, type ReviewCounts } from './load-reviews';
+import { loadInvoices, type InvoiceCounts } from './load-invoices';
 import { loadResults, type ResultCounts } from './load-results';
 import { loadRuns, type RunCounts } from './load-runs';
 import { adminContext, personContext, scenarioPerson, SEED_CONTEXT } from './seed-context';
 
 /** What a load added; all zero when the scenario was loaded already. */
-export interface LoadReport extends ReviewCounts, RunCounts, ResultCounts {
+export interface LoadReport extends ReviewCounts, RunCounts, ResultCounts, InvoiceCounts {
   institutions: number;
   people: number;
   groups: number;
@@ -24,7 +25,7 @@ export interface LoadReport extends ReviewCounts, RunCounts, ResultCounts {
 }
 
 const EMPTY_REPORT: Readonly<LoadReport> = {
-  institutions: 0, people: 0, groups: 0, members: 0, tokens: 0, rounds: 0, campaigns: 0, assignments: 0, conflicts: 0, reviews: 0, runs: 0, refunds: 0, adjustments: 0, archives: 0,
+  institutions: 0, people: 0, groups: 0, members: 0, tokens: 0, rounds: 0, campaigns: 0, assignments: 0, conflicts: 0, reviews: 0, runs: 0, refunds: 0, adjustments: 0, archives: 0, invoices: 0,
 };
 
 /**
@@ -61,6 +62,7 @@ export async function loadScenario(db: Database, settings: Settings): Promise<Lo
   report.tokens = await ensureDemoTokens(services, settings);
   await loadRoundsAndCampaigns(services, report);
   await loadRuns(services, report);
+  await loadInvoices(db, services, settings, report);
   await loadResults(services, settings, report);
   return report;
 }

@@ -55,12 +55,13 @@ export function createInvoicesService(db: Database, payments: InvoicePayments) {
       });
     },
 
-    async issue(ctx: RequestContext, id: string): Promise<Invoice> {
+    /** `issuedOn` is for the demo scenario, whose invoices were issued in past months; the api issues today. */
+    async issue(ctx: RequestContext, id: string, options: { issuedOn?: string } = {}): Promise<Invoice> {
       await db.transaction(async (tx) => {
         const invoice = await invoicesRepository.findLocked(id, tx);
         if (!invoice) throw errors.notFound('The invoice');
         if (invoice.state !== 'draft') throw errors.conflict(`Invoice ${invoice.number} is ${invoice.state} already.`);
-        const issuedOn = today();
+        const issuedOn = options.issuedOn ?? today();
         const number = await invoicesRepository.nextNumber(Number(issuedOn.slice(0, 4)), tx);
         const terms = (invoice.rateCard as { paymentTermsDays: number }).paymentTermsDays;
         await invoice.update({ state: 'issued', number, issuedOn, dueOn: dueOn(issuedOn, terms), paymentReference: number }, { transaction: tx });
