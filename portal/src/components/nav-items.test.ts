@@ -14,15 +14,16 @@ describe('nav-items', () => {
       expect(ids(['committee'])).toEqual(['nav-home', 'nav-campaigns', 'nav-committee', 'nav-profile']);
     });
 
-    it('should leave Campaigns out when the person is only a billing contact', () => {
-      expect(ids(['billing'])).toEqual(['nav-home', 'nav-profile']);
+    it('should show Invoices and leave Campaigns out when the person is only a billing contact', () => {
+      expect(ids(['billing'])).toEqual(['nav-home', 'nav-invoices', 'nav-profile']);
     });
 
-    it('should add the Committee queue, Rounds, People, Institutions and Audit log when the person is an admin', () => {
+    it('should add the Committee queue, Invoices, Rounds, People, Institutions and Audit log when the person is an admin', () => {
       expect(ids(['admin'])).toEqual([
         'nav-home',
         'nav-campaigns',
         'nav-committee',
+        'nav-invoices',
         'nav-profile',
         'nav-rounds',
         'nav-people',

@@ -15,6 +15,7 @@ export const NAV_ITEMS: NavItem[] = [
   { label: 'Home', to: { name: 'home' }, icon: 'pi pi-home', testId: 'nav-home' },
   { label: 'Campaigns', to: { name: 'campaigns' }, icon: 'pi pi-briefcase', testId: 'nav-campaigns', roles: ['researcher', 'pi', 'committee', 'admin'] },
   { label: 'Committee', to: { name: 'committee' }, icon: 'pi pi-inbox', testId: 'nav-committee', roles: ['committee', 'admin'] },
+  { label: 'Invoices', to: { name: 'invoices' }, icon: 'pi pi-receipt', testId: 'nav-invoices', roles: ['admin', 'billing'] },
   { label: 'Profile', to: { name: 'profile' }, icon: 'pi pi-user', testId: 'nav-profile' },
   { label: 'Rounds', to: { name: 'admin-rounds' }, icon: 'pi pi-calendar', testId: 'nav-rounds', roles: ['admin'] },
   { label: 'People', to: { name: 'admin-people' }, icon: 'pi pi-users', testId: 'nav-people', roles: ['admin'] },

@@ -8,6 +8,8 @@ export const CAMPAIGN_READERS: Role[] = ['researcher', 'pi', 'committee', 'admin
 export const CAMPAIGN_AUTHORS: Role[] = ['researcher', 'pi'];
 /** Runs are recorded by the group's members and PI, and by the office. */
 export const RUN_RECORDERS: Role[] = ['researcher', 'pi', 'admin'];
+/** Invoices and rate cards are the office's and the paying partners' billing contacts'. */
+export const BILLING_READERS: Role[] = ['admin', 'billing'];
 
 /** Every page of the portal. Later slices add their feature's routes here. */
 export const routes: RouteRecordRaw[] = [
@@ -152,6 +154,26 @@ export const routes: RouteRecordRaw[] = [
     name: 'admin-audit',
     component: () => import('../views/admin/audit/audit-view.vue'),
     meta: { title: 'Audit log', requiresAuth: true, roles: ['admin'] },
+  },
+  {
+    path: '/invoices',
+    name: 'invoices',
+    component: () => import('../views/billing/invoices-view.vue'),
+    meta: { title: 'Invoices', requiresAuth: true, roles: BILLING_READERS },
+  },
+  {
+    path: '/invoices/:id',
+    name: 'invoice-detail',
+    component: () => import('../views/billing/invoice-detail-view.vue'),
+    props: true,
+    meta: { title: 'Invoice', requiresAuth: true, roles: BILLING_READERS },
+  },
+  {
+    path: '/institutions/:id/rate-cards',
+    name: 'institution-rate-cards',
+    component: () => import('../views/billing/rate-cards-view.vue'),
+    props: true,
+    meta: { title: 'Rate cards', requiresAuth: true, roles: BILLING_READERS },
   },
   {
     path: '/not-allowed',
