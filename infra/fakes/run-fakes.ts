@@ -1,3 +1,4 @@
+import { mkdirSync } from 'node:fs';
 import { join } from 'node:path';
 import { loadSettings } from '@localis/shared';
 import { startOidcFake } from './oidc/oidc-fake';
@@ -40,6 +41,9 @@ async function startPaymentsFake(): Promise<{ url: string; webhookUrl: string } 
   const apiUrl = s.STRIPE_API_URL || `http://127.0.0.1:${s.STRIPE_PORT}`;
   if (!['127.0.0.1', 'localhost', '[::1]'].includes(new URL(apiUrl).hostname)) return undefined;
   const webhookUrl = `${s.PUBLIC_URL.replace(/\/+$/, '')}/api/v1/webhooks/stripe`;
+  // The app's database outlives restarts; the Stripe ids it holds must too, as s3 keeps its objects.
+  const dataDir = join(s.DATA_DIR, 'stripe');
+  mkdirSync(dataDir, { recursive: true });
   const stripe = await startStripeFake({
     host: '127.0.0.1',
     port: s.STRIPE_PORT,
@@ -47,6 +51,7 @@ async function startPaymentsFake(): Promise<{ url: string; webhookUrl: string } 
     webhookUrl,
     webhookSecret: s.STRIPE_WEBHOOK_SECRET,
     publicUrl: apiUrl,
+    dataFile: join(dataDir, 'state.json'),
   });
   closers.push(stripe.close);
   return { url: stripe.url, webhookUrl };

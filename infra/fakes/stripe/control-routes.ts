@@ -13,7 +13,7 @@ function loopbackOnly(req: Request, res: Response, next: NextFunction): void {
  * attempts, resending one (to test duplicate deliveries), pointing webhooks elsewhere, and
  * forgetting everything.
  */
-export function controlRouter(webhooks: WebhookSender, reset: () => void, defaultWebhookUrl: string | undefined): express.Router {
+export function controlRouter(webhooks: WebhookSender, reset: () => Promise<void>, defaultWebhookUrl: string | undefined): express.Router {
   const router = express.Router();
   router.use(loopbackOnly);
   router.use(express.json({ limit: '10kb' }), express.urlencoded({ extended: false, limit: '10kb' }));
@@ -54,9 +54,9 @@ export function controlRouter(webhooks: WebhookSender, reset: () => void, defaul
     res.json({ webhook_url: webhooks.url ?? null });
   });
 
-  /** Forgets every object, event and idempotency key; webhooks go to the configured URL again. */
-  router.post('/reset', (_req, res) => {
-    reset();
+  /** Forgets every object, event and idempotency key (data file included); webhooks go to the configured URL again. */
+  router.post('/reset', async (_req, res) => {
+    await reset();
     webhooks.url = defaultWebhookUrl;
     res.json({ ok: true });
   });

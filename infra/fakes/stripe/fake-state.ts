@@ -1,6 +1,6 @@
 /**
- * What the fake remembers, in memory only (a restart or `POST /_fake/reset` forgets it all).
- * Records hold the fake's own facts; `stripe-objects.ts` renders them in Stripe's shapes, so
+ * What the fake remembers: in memory, saved to its data file when it has one (`state-file.ts`),
+ * forgotten on `POST /_fake/reset`. Records hold the fake's own facts; `stripe-objects.ts` renders them in Stripe's shapes, so
  * derived values (totals, line items) are always computed from the current items.
  */
 export interface CustomerRecord {
@@ -67,6 +67,16 @@ export interface PaymentIntentRecord {
   canceled_at: number | null;
 }
 
+/** The records as plain lists, oldest first (list pages rely on that order). */
+export interface StateRecords {
+  customers: CustomerRecord[];
+  invoiceItems: InvoiceItemRecord[];
+  invoices: InvoiceRecord[];
+  paymentIntents: PaymentIntentRecord[];
+  /** Per customer id: how many of its invoices were numbered. */
+  invoiceCounts: Record<string, number>;
+}
+
 export class FakeState {
   readonly customers = new Map<string, CustomerRecord>();
   readonly invoiceItems = new Map<string, InvoiceItemRecord>();
@@ -77,6 +87,26 @@ export class FakeState {
 
   itemsOf(invoiceId: string): InvoiceItemRecord[] {
     return [...this.invoiceItems.values()].filter((i) => i.invoice === invoiceId);
+  }
+
+  /** The live records, not copies: serialize them at once. */
+  snapshot(): StateRecords {
+    return {
+      customers: [...this.customers.values()],
+      invoiceItems: [...this.invoiceItems.values()],
+      invoices: [...this.invoices.values()],
+      paymentIntents: [...this.paymentIntents.values()],
+      invoiceCounts: Object.fromEntries(this.invoiceCounts),
+    };
+  }
+
+  restore(records: StateRecords): void {
+    this.reset();
+    for (const c of records.customers) this.customers.set(c.id, c);
+    for (const i of records.invoiceItems) this.invoiceItems.set(i.id, i);
+    for (const inv of records.invoices) this.invoices.set(inv.id, inv);
+    for (const pi of records.paymentIntents) this.paymentIntents.set(pi.id, pi);
+    for (const [customer, count] of Object.entries(records.invoiceCounts)) this.invoiceCounts.set(customer, count);
   }
 
   reset(): void {

@@ -1,7 +1,7 @@
 import type { NextFunction, Request, Response } from 'express';
 import { invalidRequest, StripeFakeError } from './stripe-errors';
 
-interface StoredResponse {
+export interface StoredResponse {
   fingerprint: string;
   endpoint: string;
   status: number;
@@ -36,6 +36,15 @@ export class IdempotencyStore {
 
   reset(): void {
     this.responses.clear();
+  }
+
+  /** Every stored answer with its key, oldest first (for the data file). */
+  snapshot(): Array<StoredResponse & { key: string }> {
+    return [...this.responses].map(([key, stored]) => ({ key, ...stored }));
+  }
+
+  restore(saved: Array<StoredResponse & { key: string }>): void {
+    this.responses = new Map(saved.map(({ key, ...stored }) => [key, stored]));
   }
 
   middleware() {

@@ -1,7 +1,11 @@
+import { existsSync, readFileSync } from 'node:fs';
+import { mkdtemp, rm, writeFile } from 'node:fs/promises';
 import { createServer, type Server } from 'node:http';
 import type { AddressInfo } from 'node:net';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
 import Stripe from 'stripe';
-import { afterAll, beforeAll, beforeEach, describe, expect, it } from 'vitest';
+import { afterAll, afterEach, beforeAll, beforeEach, describe, expect, it } from 'vitest';
 import { formatAmount } from './pay-page-html';
 import { startStripeFake, type EventDeliveryView, type StripeFake } from './stripe-fake';
 
@@ -18,6 +22,7 @@ interface Delivery {
 let fake: StripeFake;
 let stripe: Stripe;
 let receiver: Server;
+let receiverUrl: string;
 let received: Delivery[] = [];
 /** Statuses the receiver answers with next (then 200): to make deliveries fail. */
 let failNext: number[] = [];
@@ -78,8 +83,8 @@ function payOnPage(invoice: Stripe.Invoice, cardNumber: string): Promise<Respons
 }
 
 beforeAll(async () => {
-  const webhookUrl = await startReceiver();
-  fake = await startStripeFake({ host: '127.0.0.1', port: 0, secretKey: SECRET_KEY, webhookUrl, webhookSecret: WEBHOOK_SECRET, webhookRetryDelaysMs: [20, 40, 80] });
+  receiverUrl = await startReceiver();
+  fake = await startStripeFake({ host: '127.0.0.1', port: 0, secretKey: SECRET_KEY, webhookUrl: receiverUrl, webhookSecret: WEBHOOK_SECRET, webhookRetryDelaysMs: [20, 40, 80] });
   const port = Number(new URL(fake.url).port);
   stripe = new Stripe(SECRET_KEY, { host: '127.0.0.1', port, protocol: 'http', maxNetworkRetries: 0, telemetry: false });
 });
@@ -279,6 +284,103 @@ describe('Stripe fake: webhook delivery', () => {
     await fetch(`${fake.url}/_fake/reset`, { method: 'POST' });
     expect(fake.events()).toEqual([]);
     await expect(stripe.customers.retrieve(customer.id)).rejects.toMatchObject({ statusCode: 404 });
+  });
+});
+
+describe('Stripe fake: data file', () => {
+  let dir: string;
+  let dataFile: string;
+  const running: StripeFake[] = [];
+
+  const start = async (port = 0) => {
+    const f = await startStripeFake({ host: '127.0.0.1', port, secretKey: SECRET_KEY, webhookUrl: receiverUrl, webhookSecret: WEBHOOK_SECRET, webhookRetryDelaysMs: [20], dataFile });
+    running.push(f);
+    const client = new Stripe(SECRET_KEY, { host: '127.0.0.1', port: Number(new URL(f.url).port), protocol: 'http', maxNetworkRetries: 0, telemetry: false });
+    return { fake: f, stripe: client };
+  };
+  const stop = async (f: StripeFake) => {
+    running.splice(running.indexOf(f), 1);
+    await f.close();
+  };
+  const saved = () => JSON.parse(readFileSync(dataFile, 'utf8')) as { customers: Array<{ id: string }>; invoices: unknown[]; events: unknown[]; idempotency: Array<{ key: string }> };
+
+  beforeEach(async () => {
+    dir = await mkdtemp(join(tmpdir(), 'stripe-fake-'));
+    dataFile = join(dir, 'stripe', 'state.json');
+  });
+
+  afterEach(async () => {
+    for (const f of running.splice(0)) await f.close();
+    await rm(dir, { recursive: true, force: true });
+  });
+
+  it('knows customers, invoices and their hosted pages after a restart', async () => {
+    const first = await start();
+    const customer = await first.stripe.customers.create({ name: 'Institute of Disorder Studies', metadata: { institution: '42' } }, { idempotencyKey: 'restart-customer' });
+    const draft = await first.stripe.invoices.create({ customer: customer.id, collection_method: 'send_invoice', currency: 'eur' });
+    await first.stripe.invoiceItems.create({ customer: customer.id, invoice: draft.id, amount: 4200, currency: 'eur', description: 'Shift block 1' });
+    const invoice = await first.stripe.invoices.finalizeInvoice(draft.id);
+    const paymentIntent = paymentIntentOf(invoice);
+    await eventually(() => (first.fake.events().every((e) => e.delivered) ? true : undefined));
+    const eventsBefore = first.fake.events();
+    const port = Number(new URL(first.fake.url).port);
+    await stop(first.fake);
+    expect(existsSync(`${dataFile}.tmp`)).toBe(false);
+
+    // The same port, so the hosted_invoice_url the app stored still leads to the page.
+    const second = await start(port);
+    expect(await second.stripe.customers.retrieve(customer.id)).toEqual(expect.objectContaining({ id: customer.id, name: 'Institute of Disorder Studies', metadata: { institution: '42' } }));
+    const again = await second.stripe.invoices.retrieve(invoice.id);
+    expect(again).toMatchObject({ status: 'open', number: invoice.number, amount_due: 4200, hosted_invoice_url: invoice.hosted_invoice_url });
+    expect((await second.stripe.paymentIntents.retrieve(paymentIntent)).status).toBe('requires_payment_method');
+    // The delivery log and idempotency keys come back too; old events are not sent again.
+    expect(second.fake.events()).toEqual(eventsBefore);
+    const replayed = await second.stripe.customers.create({ name: 'Institute of Disorder Studies', metadata: { institution: '42' } }, { idempotencyKey: 'restart-customer' });
+    expect(replayed.id).toBe(customer.id);
+    expect(replayed.lastResponse.headers['idempotent-replayed']).toBe('true');
+
+    const paid = await payOnPage(invoice, '4242 4242 4242 4242');
+    expect(await paid.text()).toContain('Invoice paid');
+    expect(await second.stripe.invoices.retrieve(invoice.id)).toMatchObject({ status: 'paid', amount_paid: 4200 });
+    // The next invoice of the customer continues its numbering.
+    const next = await second.stripe.invoices.create({ customer: customer.id, collection_method: 'send_invoice', currency: 'eur' });
+    await second.stripe.invoiceItems.create({ customer: customer.id, invoice: next.id, amount: 100, currency: 'eur' });
+    expect((await second.stripe.invoices.finalizeInvoice(next.id)).number).toMatch(/-0002$/);
+
+    await stop(second.fake);
+    const third = await start();
+    expect((await third.stripe.invoices.retrieve(invoice.id)).status).toBe('paid');
+    expect(third.fake.events().filter((e) => e.type === 'invoice.paid' && e.object_id === invoice.id)).toHaveLength(1);
+  });
+
+  it('refuses to start on a file it cannot read, naming the file', async () => {
+    await start().then((f) => stop(f.fake)); // creates the folder
+    await writeFile(dataFile, '{"version":1,"customers":[');
+    await expect(start()).rejects.toThrow(dataFile);
+    await expect(start()).rejects.toThrow(/not valid JSON/);
+
+    await writeFile(dataFile, JSON.stringify({ version: 1, customers: [{ id: 'cus_1', created: 'yesterday' }] }));
+    await expect(start()).rejects.toThrow(/\$\.customers\[0\]\.created: expected an integer/);
+    await writeFile(dataFile, JSON.stringify({ version: 2 }));
+    await expect(start()).rejects.toThrow(/\$\.version: expected one of 1/);
+    expect(running).toEqual([]);
+  });
+
+  it('empties the file on reset', async () => {
+    const { fake: f, stripe: client } = await start();
+    const customer = await client.customers.create({ email: 'kept@ids.example' }, { idempotencyKey: 'reset-customer' });
+    await eventually(() => (existsSync(dataFile) && saved().customers.some((c) => c.id === customer.id) ? true : undefined));
+    // A change without an event is saved too: Stripe keeps the 404 answered to an idempotent request.
+    await client.invoices.finalizeInvoice('in_missing', {}, { idempotencyKey: 'finalize-missing' }).catch(() => undefined);
+    await eventually(() => (saved().idempotency.length === 2 ? true : undefined));
+
+    expect((await fetch(`${f.url}/_fake/reset`, { method: 'POST' })).status).toBe(200);
+    expect(saved()).toMatchObject({ customers: [], invoices: [], events: [], idempotency: [] });
+
+    await stop(f);
+    const after = await start();
+    await expect(after.stripe.customers.retrieve(customer.id)).rejects.toMatchObject({ statusCode: 404 });
+    expect(after.fake.events()).toEqual([]);
   });
 });
 

@@ -38,12 +38,22 @@ export interface EventDeliveryView {
   event: StripeEvent;
 }
 
-interface EventEntry {
+/** An event with its delivery log, as the data file keeps it. */
+export interface SavedEvent {
   event: StripeEvent;
+  attempts: DeliveryAttempt[];
+  /** How many deliveries were started (the first and every resend). */
+  deliveries: number;
+}
+
+interface EventEntry extends SavedEvent {
   /** The exact bytes every delivery sends (and signs). */
   payload: string;
-  attempts: DeliveryAttempt[];
-  deliveries: number;
+}
+
+/** The payload text of an event; the same text again for an event read back from JSON. */
+function payloadOf(event: StripeEvent): string {
+  return JSON.stringify(event, null, 2);
 }
 
 export interface WebhookSenderOptions {
@@ -53,6 +63,8 @@ export interface WebhookSenderOptions {
   /** The waits before each retry; their count is the number of retries. */
   retryDelaysMs: readonly number[];
   timeoutMs: number;
+  /** Called when an event is recorded or an attempt is logged (the data file saves then). */
+  onChange?: () => void;
 }
 
 /**
@@ -86,8 +98,9 @@ export class WebhookSender {
       request: extra.request ?? { id: null, idempotency_key: null },
       type,
     };
-    const entry: EventEntry = { event, payload: JSON.stringify(event, null, 2), attempts: [], deliveries: 0 };
+    const entry: EventEntry = { event, payload: payloadOf(event), attempts: [], deliveries: 0 };
     this.entries.set(event.id, entry);
+    this.opts.onChange?.();
     if (this.url) this.track(this.deliver(entry));
     return event;
   }
@@ -117,6 +130,21 @@ export class WebhookSender {
         event: e.event,
       });
     });
+  }
+
+  /** The live entries, not copies: serialize them at once. */
+  snapshot(): SavedEvent[] {
+    return [...this.entries.values()].map(({ event, attempts, deliveries }) => ({ event, attempts, deliveries }));
+  }
+
+  /**
+   * Takes back the events of an earlier run, oldest first. Events that were never delivered are
+   * not sent again on their own (the app was likely down with the fake, and a surprise burst of old
+   * events would make tests flaky); `POST /_fake/events/:id/resend` delivers one by hand.
+   */
+  restore(saved: SavedEvent[]): void {
+    this.reset();
+    this.entries = new Map(saved.map((e) => [e.event.id, { ...e, payload: payloadOf(e.event) }]));
   }
 
   /** Forgets every event and stops pending retries. */
@@ -153,6 +181,7 @@ export class WebhookSender {
       if (attempt === 1) onFirstAttempt?.(result);
       if (generation !== this.generation) return;
       entry.attempts.push(result);
+      this.opts.onChange?.();
       const ok = result.status !== null && result.status >= 200 && result.status < 300;
       if (ok || attempt > this.opts.retryDelaysMs.length) return;
       await this.wait(this.opts.retryDelaysMs[attempt - 1]);
