@@ -11,10 +11,12 @@ export const QUEUES = {
   spotCheck: 'localis-spot-check',
   /** Drafts partner invoices for a period from the ledger. */
   invoiceRun: 'localis-invoice-run',
+  /** What follows an invoice's issue: its PDF, its payment page, the e-mail to the partner. */
+  invoiceIssued: 'localis-invoice-issued',
   /** Gives new provenance entries their leaf indexes and signs a new tree head. */
   sequenceProvenance: 'localis-sequence-provenance',
 } as const;
 export type QueueName = (typeof QUEUES)[keyof typeof QUEUES];
 
 /** Kinds of outbox messages the dispatcher hands to the queues. */
-export const OUTBOX_KINDS = { mail: 'mail', verifyArchive: 'verify-archive', analyze: 'analyze', spotCheck: 'spot-check', invoiceRun: 'invoice-run' } as const;
+export const OUTBOX_KINDS = { mail: 'mail', verifyArchive: 'verify-archive', analyze: 'analyze', spotCheck: 'spot-check', invoiceRun: 'invoice-run', invoiceIssued: 'invoice-issued' } as const;

@@ -160,3 +160,6 @@ export type PaymentLink = z.infer<typeof PaymentLink>;
 
 export const InvoiceRunJob = z.object({ runId: z.uuid() });
 export type InvoiceRunJob = z.infer<typeof InvoiceRunJob>;
+
+export const InvoiceIssuedJob = z.object({ invoiceId: z.uuid() });
+export type InvoiceIssuedJob = z.infer<typeof InvoiceIssuedJob>;

@@ -1,7 +1,8 @@
 import type Stripe from 'stripe';
 import { errors, formatMinor, OUTBOX_KINDS, type InvoiceLine, type Settings } from '@localis/shared';
 import type { Database } from '../db';
-import { Institution, InvoiceRow, Person, RoleGrant } from '../db/models';
+import { Institution, InvoiceRow } from '../db/models';
+import { billingAddressesOf } from './billing-contacts';
 import type { ObjectStore } from '../archives/object-store';
 import { outboxRepository } from '../outbox/outbox.repository';
 import { renderInvoicePdf } from './invoice-pdf';
@@ -78,14 +79,6 @@ export function createInvoicePayments(db: Database, settings: Settings, store: O
     return finalized.hosted_invoice_url!;
   }
 
-  /** The partner's billing contacts: its billing people and its billing address. */
-  async function billingAddresses(institutionId: string): Promise<string[]> {
-    const institution = await Institution.findByPk(institutionId);
-    const people = await Person.findAll({ where: { institutionId, active: true }, attributes: ['email'], include: [{ model: RoleGrant, as: 'roleGrants', where: { role: 'billing' }, attributes: [] }] });
-    const emails = people.map((p) => p.email);
-    return [...new Set([...(institution?.billingEmail ? [institution.billingEmail] : []), ...emails])];
-  }
-
   return {
     ensurePdf,
     paymentPage: ensureStripeInvoice,
@@ -95,7 +88,7 @@ export function createInvoicePayments(db: Database, settings: Settings, store: O
       const pdfKey = await ensurePdf(invoiceId);
       const invoice = (await invoicesRepository.find(invoiceId))!;
       if (Number(invoice.totalMinor) > 0) await ensureStripeInvoice(invoiceId).catch(() => undefined); // the pay route asks again
-      const to = await billingAddresses(invoice.institutionId);
+      const to = await billingAddressesOf(invoice.institutionId);
       if (!to.length) return;
       const total = formatMinor(Number(invoice.totalMinor), invoice.currency);
       await db.transaction((tx) =>

@@ -1,4 +1,6 @@
-import { computeInvoice } from '@localis/shared';
+import { computeInvoice, OUTBOX_KINDS } from '@localis/shared';
+import { outboxRepository } from '../outbox/outbox.repository';
+import { officeAddresses } from './billing-contacts';
 import type { Database } from '../db';
 import { Institution, InvoiceRow } from '../db/models';
 import { rateCardsRepository, toRateCardDto } from '../rate-cards/rate-cards.repository';
@@ -14,7 +16,7 @@ export type InvoiceRunOutcome = 'done' | 'failed' | 'skipped';
  * are never touched, and their entries are never billed again. One transaction per partner.
  * Partners without a rate card are named in the run's error, the others drafted.
  */
-export function createInvoiceRunner(db: Database) {
+export function createInvoiceRunner(db: Database, publicUrl = '') {
   return {
     async run(runId: string): Promise<InvoiceRunOutcome> {
       const run = await db.transaction(async (tx) => {
@@ -71,6 +73,20 @@ export function createInvoiceRunner(db: Database) {
         const r = (await invoicesRepository.findRunLocked(runId, tx))!;
         const error = missingCards.length ? `No rate card in force on ${period.from} for ${missingCards.join(', ')}: add one and run the period again.` : null;
         await r.update({ state: 'done', drafted, error, finishedAt: new Date() }, { transaction: tx });
+        // The monthly run was queued by nobody: the office hears that its drafts are ready.
+        const office = r.startedByPersonId === null ? await officeAddresses(tx) : [];
+        if (office.length && (drafted > 0 || error)) {
+          await outboxRepository.enqueue(
+            OUTBOX_KINDS.mail,
+            {
+              to: office,
+              subject: `Invoices of ${period.from.slice(0, 7)}: ${drafted} draft${drafted === 1 ? '' : 's'} to check and issue`,
+              text: [`The invoice run for ${period.from} to ${period.to} drafted ${drafted} invoice${drafted === 1 ? '' : 's'} from the ledger.`, ...(error ? [error] : []), `Check and issue them in Localis: ${publicUrl}/invoices?state=draft`].join('\n'),
+              dedupeKey: `invoice-run-done-${runId}`,
+            },
+            tx,
+          );
+        }
       });
       return 'done';
     },

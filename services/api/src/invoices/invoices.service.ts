@@ -66,9 +66,11 @@ export function createInvoicesService(db: Database, payments: InvoicePayments) {
         const terms = (invoice.rateCard as { paymentTermsDays: number }).paymentTermsDays;
         await invoice.update({ state: 'issued', number, issuedOn, dueOn: dueOn(issuedOn, terms), paymentReference: number }, { transaction: tx });
         await auditService.record(ctx, 'invoice.issued', { type: 'invoice', id }, { number, totalMinor: Number(invoice.totalMinor), currency: invoice.currency }, tx);
+        // The worker makes sure the PDF, the payment page and the e-mail follow, retrying until done.
+        await outboxRepository.enqueue(OUTBOX_KINDS.invoiceIssued, { invoiceId: id }, tx);
       });
-      // After the number is fixed: the PDF, the payment page and the e-mail are each retried until done.
-      await payments.afterIssue(id);
+      // Done here at once too, so the answer has them; every step is idempotent, and a failure is left to the worker.
+      await payments.afterIssue(id).catch(() => undefined);
       return dto(id);
     },
 

@@ -6,6 +6,7 @@ import { actingAs, makeCampaignWorld, type CampaignWorld } from '../../test/camp
 import { bearerCaller, settled, type ApiCall } from '../../test/archive-upload';
 import { InvoiceRow, InvoiceRunRow, LedgerEntry, OutboxMessage } from '../db/models';
 import { createInvoiceRunner } from './invoice-runner';
+import { queueLastMonthsRun, remindOverdueInvoices } from './billing-chores';
 
 let t: TestApp;
 let w: CampaignWorld;
@@ -185,5 +186,37 @@ describe('invoices of a partner', () => {
     expect(own.length).toBeGreaterThan(0);
     expect(own.every((i) => i.institutionId === w.institutionId)).toBe(true);
     expect((await researcher('GET', '/invoices')).status).toBe(403);
+  });
+});
+
+describe('the monthly chores', () => {
+  it('should queue the ended month’s run once, and mail the office when its drafts are ready', async () => {
+    const now = new Date('2027-09-01T06:00:00Z');
+    await InvoiceRunRow.update({ state: 'failed', error: 'closed by the test', finishedAt: new Date() }, { where: { state: ['queued', 'running'] } });
+    await run('2027-08-14', 4, 10);
+    const runId = await queueLastMonthsRun(t.db, now);
+    expect(runId).not.toBeNull();
+    expect(await queueLastMonthsRun(t.db, now)).toBeNull();
+    const queued = (await InvoiceRunRow.findByPk(runId!))!;
+    expect([queued.periodFrom, queued.periodTo, queued.startedByPersonId]).toEqual(['2027-08-01', '2027-08-31', null]);
+    await createInvoiceRunner(t.db, t.url).run(runId!);
+    await settled(() => InvoiceRunRow.findByPk(runId!), ['queued', 'running']);
+    const mails = await OutboxMessage.findAll({ where: { kind: 'mail' }, order: [['id', 'DESC']], limit: 20 });
+    const office = mails.find((m) => (m.payload as { dedupeKey: string }).dedupeKey === `invoice-run-done-${runId}`);
+    expect(office?.payload).toMatchObject({ subject: expect.stringMatching(/^Invoices of 2027-08: \d+ drafts? to check and issue$/) });
+  });
+
+  it('should remind the billing contacts of an overdue invoice, then not again within a week', async () => {
+    const draftId = (await draftsOf('2027-08-01'))[0]!.id;
+    const issued = (await (await admin('POST', `/invoices/${draftId}/issue`)).json()) as Invoice;
+    const later = new Date(Date.parse(`${issued.dueOn}T00:00:00Z`) + 2 * 86_400_000);
+    expect(await remindOverdueInvoices(t.db, later, t.url)).toBeGreaterThanOrEqual(1);
+    const row = (await InvoiceRow.findByPk(issued.id))!;
+    expect(row.remindedAt?.getTime()).toBe(later.getTime());
+    const reminder = (await OutboxMessage.findAll({ where: { kind: 'mail' }, order: [['id', 'DESC']], limit: 20 })).find((m) => (m.payload as { dedupeKey: string }).dedupeKey.startsWith(`invoice-reminder-${issued.id}`));
+    expect(reminder?.payload).toMatchObject({ subject: `Reminder: invoice ${issued.number} (${'€'}${(issued.totalMinor / 100).toFixed(2)}) was due on ${issued.dueOn}` });
+    await remindOverdueInvoices(t.db, new Date(later.getTime() + 3 * 86_400_000), t.url);
+    expect((await InvoiceRow.findByPk(issued.id))!.remindedAt?.getTime()).toBe(later.getTime());
+    expect((await (await billing('GET', `/invoices/${issued.id}`)).json()) as Invoice).toMatchObject({ overdue: false });
   });
 });

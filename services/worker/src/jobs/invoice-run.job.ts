@@ -3,7 +3,7 @@ import { createInvoiceRunner, type InvoiceRunner } from '@localis/api/invoices/i
 import type { JobDefinition, JobDeps } from './job';
 
 let runner: InvoiceRunner | null = null;
-const runnerOf = (deps: JobDeps) => (runner ??= createInvoiceRunner(deps.db));
+const runnerOf = (deps: JobDeps) => (runner ??= createInvoiceRunner(deps.db, deps.settings.PUBLIC_URL));
 
 /** An invoice run: the partners' usage of a period drafted into invoices. */
 export const invoiceRunJob: JobDefinition<typeof InvoiceRunJob> = {

@@ -6,7 +6,7 @@ import type { Database } from '@localis/api/db';
 import { outboxRepository } from '@localis/api/outbox';
 
 /** Which queue each outbox kind goes to. */
-const ROUTES: Record<string, string> = { [OUTBOX_KINDS.mail]: QUEUES.mail, [OUTBOX_KINDS.verifyArchive]: QUEUES.verifyArchive, [OUTBOX_KINDS.analyze]: QUEUES.analyze, [OUTBOX_KINDS.spotCheck]: QUEUES.spotCheck, [OUTBOX_KINDS.invoiceRun]: QUEUES.invoiceRun };
+const ROUTES: Record<string, string> = { [OUTBOX_KINDS.mail]: QUEUES.mail, [OUTBOX_KINDS.verifyArchive]: QUEUES.verifyArchive, [OUTBOX_KINDS.analyze]: QUEUES.analyze, [OUTBOX_KINDS.spotCheck]: QUEUES.spotCheck, [OUTBOX_KINDS.invoiceRun]: QUEUES.invoiceRun, [OUTBOX_KINDS.invoiceIssued]: QUEUES.invoiceIssued };
 
 export const JOB_OPTIONS = {
   attempts: 8,

@@ -1,6 +1,7 @@
 import { createHash, type Hash } from 'node:crypto';
 import type { ArchiveLimits } from '../archive.schema';
 import { isTableName, MANIFEST_NAME, normalizeEntryName, unsafeNameReason } from './entry-names';
+import type { FileHasher } from './file-hasher';
 import { HashThread } from './hash-thread';
 import { FileRangeHasher } from './range-hasher';
 import { NumericTableReader, type TablePoint, type TableSummary } from './numeric-table';
@@ -43,6 +44,8 @@ export interface InspectorOptions {
   collectRows: number;
   /** The archive is this file on this machine: large entries lying in it as they are get hashed from it. */
   localPath?: string;
+  /** Hashes of ranges of the stream the whole-file hasher is fed: large entries lying in it as they are get hashed from there. */
+  streamRanges?: FileHasher['ranges'];
 }
 
 /**
@@ -171,6 +174,19 @@ export class ArchiveInspector {
     return this.entryThread;
   }
 
+  /**
+   * @internal The digest of a large entry from the bytes the whole-file hasher keeps, when the entry
+   * lies in the stored file as it is (`fileOffset`) and those bytes are still kept; asked for at the
+   * entry's start, before its bytes have all gone by.
+   */
+  streamRangeDigest(declaredSize: number, fileOffset: number | undefined): Promise<string> | null {
+    const { streamRanges } = this.options;
+    if (!streamRanges || fileOffset === undefined || declaredSize < THREAD_HASH_FROM_BYTES) return null;
+    const digest = streamRanges.hash(fileOffset, fileOffset + declaredSize);
+    digest?.catch(() => undefined); // awaited when the entry ends, unless the check stopped early
+    return digest;
+  }
+
   /** @internal The thread hashing ranges of the local file, when this entry can be hashed so. */
   rangeHasherFor(declaredSize: number, fileOffset: number | undefined): FileRangeHasher | null {
     if (fileOffset === undefined || !this.hashesFromFile(declaredSize)) return null;
@@ -200,11 +216,12 @@ export class ArchiveInspector {
 }
 
 /**
- * Where a regular file's bytes go: its hash (inline, on the entry thread, or from the local file by
- * its range), its size, and the table reader or the manifest buffer.
+ * Where a regular file's bytes go: its hash (inline, on the entry thread, or by its range from the
+ * local file or from the whole-file hasher's copy), its size, and the table reader or the manifest buffer.
  */
 export class EntrySink {
   private readonly ranges: FileRangeHasher | null;
+  private readonly streamDigest: Promise<string> | null;
   private readonly thread: HashThread | null;
   private readonly hash: Hash | null;
   private sizeBytes = 0;
@@ -219,8 +236,9 @@ export class EntrySink {
     private readonly fileOffset?: number,
   ) {
     this.ranges = inspector.rangeHasherFor(declaredSize, fileOffset);
-    this.thread = this.ranges ? null : inspector.threadFor(declaredSize);
-    this.hash = this.ranges || this.thread ? null : createHash('sha256');
+    this.streamDigest = this.ranges ? null : inspector.streamRangeDigest(declaredSize, fileOffset);
+    this.thread = this.ranges || this.streamDigest ? null : inspector.threadFor(declaredSize);
+    this.hash = this.ranges || this.streamDigest || this.thread ? null : createHash('sha256');
     this.table = isTableName(name) ? inspector.tableReader(name) : null;
     if (name === MANIFEST_NAME) {
       if (declaredSize > inspector.maxManifestBytes) this.manifestTooLarge = true;
@@ -258,7 +276,7 @@ export class EntrySink {
   end(): void {
     const manifest = this.manifestTooLarge ? 'too-large' : this.manifestParts ? Buffer.concat(this.manifestParts) : null;
     const seen = { sizeBytes: this.sizeBytes, sha256: this.hash ? this.hash.digest('hex') : '' };
-    const digest = this.ranges ? this.ranges.hash(this.fileOffset!, this.fileOffset! + this.sizeBytes) : (this.thread?.endStream() ?? null);
+    const digest = this.ranges ? this.ranges.hash(this.fileOffset!, this.fileOffset! + this.sizeBytes) : (this.streamDigest ?? this.thread?.endStream() ?? null);
     this.inspector.finishEntry(this.name, seen, digest, this.table?.end() ?? null, manifest);
   }
 }

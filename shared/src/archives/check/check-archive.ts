@@ -58,8 +58,16 @@ export async function checkArchive(source: ArchiveSource | ByteSource, options: 
   }
   const archive = source as ArchiveSource;
   const bounds = campaign ? specBounds(campaign.spec) : undefined;
-  const inspector = new ArchiveInspector({ limits, problems, bounds, collectRows: Math.max(0, options.collectRows ?? 0), localPath: archive.localPath });
-  const hasher = createFileHasher(archive);
+  // A plain tar's entries lie in the file as they are: a large one is hashed from the whole-file hasher's copy.
+  const hasher = createFileHasher(archive, { ranges: format === 'tar' });
+  const inspector = new ArchiveInspector({
+    limits,
+    problems,
+    bounds,
+    collectRows: Math.max(0, options.collectRows ?? 0),
+    localPath: archive.localPath,
+    streamRanges: hasher.ranges,
+  });
   let sha256: string | null = null;
   let completed: boolean;
   let bytesRead: number;

@@ -12,6 +12,12 @@ export interface FileHasher {
   digest(): Promise<string>;
   /** Drop the work (the check stopped early or was cancelled); safe to call after digest. */
   close(): void;
+  /**
+   * Set when ranges of the bytes fed may be hashed from the copy the hasher keeps (see HashThread):
+   * the digest of [start, end), or null when those bytes may be gone and must be hashed another way.
+   * Ranges are asked for in order, before their bytes are fed or while they still are.
+   */
+  readonly ranges?: { hash(start: number, end: number): Promise<string> | null };
 }
 
 /** Below this, hashing inline costs less than starting a thread. */
@@ -20,9 +26,11 @@ export const INLINE_HASH_BELOW_BYTES = 16 * 1024 * 1024;
 /**
  * Inline for a small file; for a large one on a thread, fed the bytes the check reads; for a large
  * file on this machine, on a thread that reads the file by itself into one reused buffer (as
- * `openssl dgst` does), so that the main thread copies nothing for it.
+ * `openssl dgst` does), so that the main thread copies nothing for it. With `ranges` (a plain tar
+ * read from a stream, whose entries lie in it as they are), a large file's hasher also offers the
+ * entries' hashes from the one copy it keeps.
  */
-export function createFileHasher(file: { sizeBytes: number; localPath?: string }): FileHasher {
+export function createFileHasher(file: { sizeBytes: number; localPath?: string }, options: { ranges?: boolean } = {}): FileHasher {
   if (file.sizeBytes < INLINE_HASH_BELOW_BYTES) {
     const hash = createHash('sha256');
     return {
@@ -33,18 +41,21 @@ export function createFileHasher(file: { sizeBytes: number; localPath?: string }
     };
   }
   if (file.localPath) return localFileHasher(file.localPath, file.sizeBytes);
-  const thread = new HashThread();
+  const thread = new HashThread({ ranges: options.ranges === true });
   return {
     needsBytes: true,
     update: (chunk) => thread.update(chunk),
     digest: async () => {
       try {
-        return await thread.endStream();
+        const hex = await thread.endStream();
+        await thread.rangesSettled(); // the range thread stops with this one
+        return hex;
       } finally {
         thread.close();
       }
     },
     close: () => thread.close(),
+    ranges: options.ranges ? { hash: (start, end) => thread.hashRange(start, end) } : undefined,
   };
 }
 

@@ -1,6 +1,7 @@
 import { PassThrough, Readable } from 'node:stream';
 import yauzl from 'yauzl';
 import { asReadable, READ_CHUNK_BYTES, type ByteSource } from './archive-source';
+import { inBlocks } from './block-reader';
 import { SourceError } from './halt';
 
 /**
@@ -41,9 +42,15 @@ export class SourceRangeReader extends yauzl.RandomAccessReader {
           input.destroy();
           return;
         }
-        input.on('error', (error) => out.destroy(new SourceError(error)));
-        out.on('close', () => input.destroy());
-        input.pipe(out);
+        input.on('error', () => undefined); // thrown by the blocks' reading, below
+        // An entry's bytes in blocks: fewer, larger chunks for yauzl's checks, inflate and the entry hash.
+        const blocks = Readable.from(inBlocks(input, { blockBytes: Math.max(1, Math.min(READ_CHUNK_BYTES, end - start)) }), { objectMode: false });
+        blocks.on('error', (error) => out.destroy(new SourceError(error)));
+        out.on('close', () => {
+          input.destroy();
+          blocks.destroy();
+        });
+        blocks.pipe(out);
       },
       (error: unknown) => out.destroy(new SourceError(error)),
     );

@@ -3,10 +3,13 @@ import { createGunzip } from 'node:zlib';
 import { extract as tarExtract, type Header } from 'tar-stream';
 import type { EntryKind } from './archive-inspector';
 import { asReadable, type ArchiveSource } from './archive-source';
+import { inBlocks } from './block-reader';
 import { Halt, SourceError, progressReporter, type WalkContext, type WalkResult } from './halt';
 
 /** Zlib output chunks: larger ones cost less per byte (fewer calls, events and parser steps). */
 const INFLATE_CHUNK_BYTES = 256 * 1024;
+/** The stored file is read in blocks growing from this to READ_CHUNK_BYTES (see inBlocks). */
+const FIRST_BLOCK_BYTES = 64 * 1024;
 
 /**
  * A tar or tar.gz archive in one sequential pass: each chunk goes to the whole-file hash and on to
@@ -21,7 +24,7 @@ export async function readTar(source: ArchiveSource, context: WalkContext): Prom
   let bytesRead = 0;
   let inflated = 0;
   let input: Readable | null = null;
-  const dataInFile = source.format === 'tar' && source.localPath !== undefined;
+  const dataInFile = source.format === 'tar';
 
   halt.signal.addEventListener('abort', () => {
     input?.destroy();
@@ -39,7 +42,7 @@ export async function readTar(source: ArchiveSource, context: WalkContext): Prom
     if (halt.halted) return;
     let sink;
     try {
-      // In a plain tar on this machine an entry's bytes lie in the file as they are, right after its header.
+      // In a plain tar an entry's bytes lie in the file as they are, right after its header.
       const fileOffset = dataInFile ? (header as Header & { byteOffset?: number }).byteOffset : undefined;
       sink = inspector.beginEntry(header.name, kindOf(header.type), header.size ?? 0, fileOffset);
     } catch (error) {
@@ -91,7 +94,7 @@ export async function readTar(source: ArchiveSource, context: WalkContext): Prom
   try {
     input = asReadable(await source.open());
     input.on('error', () => undefined); // read by the loop below
-    for await (const chunk of input as AsyncIterable<Buffer>) {
+    for await (const chunk of inBlocks(input, { firstBlockBytes: FIRST_BLOCK_BYTES })) {
       if (halt.halted) break;
       bytesRead += chunk.byteLength;
       progress.report(bytesRead);
