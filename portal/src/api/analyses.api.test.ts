@@ -1,29 +1,12 @@
-import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { analysesApi } from './analyses.api';
-import { jsonResponse } from '../test/fetch-stub';
-import { configureHttpClient } from './http-client';
+import { recordApiCalls } from '../test/api-calls';
 
 const CAMPAIGN = '3a4b5c6d-7e8f-4a0b-9c1d-2e3f4a5b6c7d';
 const ANALYSIS = '5e6f7a8b-9c0d-4e1f-8a2b-3c4d5e6f7a8b';
 
 describe('analysesApi', () => {
-  let fetchMock: ReturnType<typeof vi.fn>;
-
-  beforeEach(() => {
-    fetchMock = vi.fn(() => Promise.resolve(jsonResponse(200, {})));
-    vi.stubGlobal('fetch', fetchMock);
-    configureHttpClient({ csrfToken: () => 'csrf-123' });
-  });
-
-  afterEach(() => {
-    vi.unstubAllGlobals();
-    configureHttpClient({ csrfToken: () => null });
-  });
-
-  const call = (i = 0) => {
-    const [url, init] = fetchMock.mock.calls[i] as [string, RequestInit & { headers: Record<string, string> }];
-    return { url, method: init.method, body: init.body ? JSON.parse(String(init.body)) : undefined, csrf: init.headers['x-csrf-token'] };
-  };
+  const { call } = recordApiCalls();
 
   describe('the routes', () => {
     it('should list a campaign’s analyses, fetch one and request a new one with the CSRF token', async () => {

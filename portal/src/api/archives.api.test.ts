@@ -1,30 +1,13 @@
-import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
-import { jsonResponse } from '../test/fetch-stub';
+import { describe, expect, it } from 'vitest';
+import { recordApiCalls } from '../test/api-calls';
 import { archivesApi } from './archives.api';
-import { configureHttpClient } from './http-client';
 import { provenanceApi } from './provenance.api';
 
 const ARCHIVE = '7c1d2e3f-4a5b-4c6d-8e7f-9a0b1c2d3e4f';
 const CAMPAIGN = '3a4b5c6d-7e8f-4a0b-9c1d-2e3f4a5b6c7d';
 
 describe('archivesApi', () => {
-  let fetchMock: ReturnType<typeof vi.fn>;
-
-  beforeEach(() => {
-    fetchMock = vi.fn(() => Promise.resolve(jsonResponse(200, {})));
-    vi.stubGlobal('fetch', fetchMock);
-    configureHttpClient({ csrfToken: () => 'csrf-123' });
-  });
-
-  afterEach(() => {
-    vi.unstubAllGlobals();
-    configureHttpClient({ csrfToken: () => null });
-  });
-
-  const call = (i = 0) => {
-    const [url, init] = fetchMock.mock.calls[i] as [string, RequestInit & { headers: Record<string, string> }];
-    return { url, method: init.method, body: init.body ? JSON.parse(String(init.body)) : undefined, csrf: init.headers['x-csrf-token'] };
-  };
+  const { call } = recordApiCalls();
 
   describe('the upload', () => {
     it('should create, list stored parts, ask for part addresses and complete at the routes of the api, with the CSRF token on writes', async () => {

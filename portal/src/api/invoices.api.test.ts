@@ -1,30 +1,14 @@
-import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
+import { describe, expect, it } from 'vitest';
+import { recordApiCalls } from '../test/api-calls';
 import { jsonResponse } from '../test/fetch-stub';
 import { ApiError } from './api-error';
-import { configureHttpClient } from './http-client';
 import { invoicesApi } from './invoices.api';
 
 const INVOICE = '6c1d2e3f-4a5b-4c6d-8e7f-9a0b1c2d3e4f';
 const INSTITUTION = '0b6d117f-1c3a-4d1b-8a4e-9a521c0a3e0b';
 
 describe('invoicesApi', () => {
-  let fetchMock: ReturnType<typeof vi.fn>;
-
-  beforeEach(() => {
-    fetchMock = vi.fn(() => Promise.resolve(jsonResponse(200, {})));
-    vi.stubGlobal('fetch', fetchMock);
-    configureHttpClient({ csrfToken: () => 'csrf-123' });
-  });
-
-  afterEach(() => {
-    vi.unstubAllGlobals();
-    configureHttpClient({ csrfToken: () => null });
-  });
-
-  const call = (i = 0) => {
-    const [url, init] = fetchMock.mock.calls[i] as [string, RequestInit & { headers: Record<string, string> }];
-    return { url, method: init.method, body: init.body ? JSON.parse(String(init.body)) : undefined, csrf: init.headers['x-csrf-token'] };
-  };
+  const { fetchMock, call, init } = recordApiCalls();
 
   describe('reading', () => {
     it('should list invoices with the filters in the query and leave empty ones out', async () => {
@@ -38,7 +22,7 @@ describe('invoicesApi', () => {
       const controller = new AbortController();
       await invoicesApi.get(INVOICE, controller.signal);
       expect(call(0)).toEqual({ url: `/api/v1/invoices/${INVOICE}`, method: 'GET', body: undefined, csrf: undefined });
-      expect((fetchMock.mock.calls[0] as [string, RequestInit])[1].signal).toBe(controller.signal);
+      expect(init(0).signal).toBe(controller.signal);
     });
 
     it('should give the PDF as a plain address under the api, without a request', () => {

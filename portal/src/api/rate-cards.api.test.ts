@@ -1,30 +1,14 @@
-import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
+import { describe, expect, it } from 'vitest';
+import { recordApiCalls } from '../test/api-calls';
 import { jsonResponse } from '../test/fetch-stub';
 import { ApiError } from './api-error';
-import { configureHttpClient } from './http-client';
 import { rateCardsApi } from './rate-cards.api';
 
 const INSTITUTION = '0b6d117f-1c3a-4d1b-8a4e-9a521c0a3e0b';
 const INPUT = { currency: 'EUR', unitPriceMinor: 250, tiers: [], discountBasisPoints: 0, taxRateBasisPoints: 2100, reverseCharge: false, paymentTermsDays: 30, effectiveFrom: '2027-01-01' };
 
 describe('rateCardsApi', () => {
-  let fetchMock: ReturnType<typeof vi.fn>;
-
-  beforeEach(() => {
-    fetchMock = vi.fn(() => Promise.resolve(jsonResponse(200, { items: [] })));
-    vi.stubGlobal('fetch', fetchMock);
-    configureHttpClient({ csrfToken: () => 'csrf-123' });
-  });
-
-  afterEach(() => {
-    vi.unstubAllGlobals();
-    configureHttpClient({ csrfToken: () => null });
-  });
-
-  const call = (i = 0) => {
-    const [url, init] = fetchMock.mock.calls[i] as [string, RequestInit & { headers: Record<string, string> }];
-    return { url, method: init.method, body: init.body ? JSON.parse(String(init.body)) : undefined, csrf: init.headers['x-csrf-token'] };
-  };
+  const { fetchMock, call } = recordApiCalls({ items: [] });
 
   describe('the routes', () => {
     it('should list a partner’s cards under the institution with a plain GET', async () => {

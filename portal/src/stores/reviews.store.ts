@@ -3,53 +3,18 @@ import { defineStore } from 'pinia';
 import { ref } from 'vue';
 import { reviewsApi, type CommitteeQueueParams } from '../api/reviews.api';
 import { isAbort, latestOnly } from './latest-only';
+import { useShownRecord } from './shown-record';
+import { useWholeList } from './whole-list';
 
 export const useReviewsStore = defineStore('reviews', () => {
   /** The committee queue as last loaded (the whole list: the api does not page it). */
-  const queue = ref<CommitteeQueueItem[]>([]);
-  const queueLoading = ref(false);
+  const { items: queue, loading: queueLoading, load: loadQueue } = useWholeList<CommitteeQueueItem, CommitteeQueueParams>(reviewsApi.queue);
   /** The reviews of the campaign a page shows, in the form meant for the caller. */
-  const current = ref<CampaignReviews | null>(null);
-  const currentLoading = ref(false);
+  const { current, loading: currentLoading, load: loadForCampaign } = useShownRecord(reviewsApi.forCampaign, (reviews: CampaignReviews) => reviews.campaignId);
   /** The pool the decision screen weighs a grant against, and the campaign it was read for. */
   const pool = ref<PoolUsage | null>(null);
   const poolCampaignId = ref<string | null>(null);
-
-  const queueReads = latestOnly();
-  const reviewReads = latestOnly();
   const poolReads = latestOnly();
-
-  async function loadQueue(query: CommitteeQueueParams): Promise<void> {
-    const { signal, isCurrent } = queueReads.begin();
-    queueLoading.value = true;
-    try {
-      const answer = await reviewsApi.queue(query, signal);
-      if (isCurrent()) queue.value = answer.items;
-    } catch (error) {
-      if (isAbort(error)) return;
-      throw error;
-    } finally {
-      if (isCurrent()) queueLoading.value = false;
-    }
-  }
-
-  /** Loads one campaign's reviews into `current`; a newer load (another campaign) wins. */
-  async function loadForCampaign(campaignId: string): Promise<CampaignReviews | null> {
-    const { signal, isCurrent } = reviewReads.begin();
-    if (current.value?.campaignId !== campaignId) current.value = null;
-    currentLoading.value = true;
-    try {
-      const answer = await reviewsApi.forCampaign(campaignId, signal);
-      if (!isCurrent()) return null;
-      current.value = answer;
-      return answer;
-    } catch (error) {
-      if (isAbort(error)) return null;
-      throw error;
-    } finally {
-      if (isCurrent()) currentLoading.value = false;
-    }
-  }
 
   async function loadPool(campaignId: string): Promise<PoolUsage | null> {
     const { signal, isCurrent } = poolReads.begin();

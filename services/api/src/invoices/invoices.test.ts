@@ -1,5 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import Stripe from 'stripe';
+import fc from 'fast-check';
+import { QueryTypes } from 'sequelize';
 import { RunInput, type Invoice, type InvoiceList, type InvoiceRun, type PaymentLink } from '@localis/shared';
 import { createPerson, startTestApp, tokenFor, type TestApp } from '../../test/harness';
 import { actingAs, makeCampaignWorld, type CampaignWorld } from '../../test/campaign-world';
@@ -47,7 +49,7 @@ beforeAll(async () => {
   researcher = bearerCaller(t.url, await tokenFor(t, w.researcher));
   stripeUrl = `http://127.0.0.1:${t.settings.STRIPE_PORT}`;
   // EUR 0.12 a core-hour, 0.09 beyond 500 core-hours in a month, 21 % VAT, 30 days.
-  const card = await admin('POST', `/institutions/${w.institutionId}/rate-cards`, { currency: 'EUR', unitPriceMinor: 12, tiers: [{ fromCoreHours: 500, unitPriceMinor: 9 }], taxRateBasisPoints: 2100, paymentTermsDays: 30, effectiveFrom: '2027-01-01' });
+  const card = await admin('POST', `/institutions/${w.institutionId}/rate-cards`, { currency: 'EUR', unitPriceMinor: 12, tiers: [{ fromCoreHours: 500, unitPriceMinor: 9 }], taxRateBasisPoints: 2100, paymentTermsDays: 30, effectiveFrom: '2026-01-01' });
   expect(card.status).toBe(201);
   // May 2027: 640 + 160 core-hours; June 2027: 10 core-hours.
   await run('2027-05-10', 64, 10);
@@ -219,4 +221,53 @@ describe('the monthly chores', () => {
     expect((await InvoiceRow.findByPk(issued.id))!.remindedAt?.getTime()).toBe(later.getTime());
     expect((await (await billing('GET', `/invoices/${issued.id}`)).json()) as Invoice).toMatchObject({ overdue: false });
   });
+});
+
+describe('reconciliation with the ledger', () => {
+  /** Months no other test of this file uses: one per property run. */
+  let nextMonth = 0;
+  const monthOf = (n: number) => new Date(Date.UTC(2045, n, 1));
+
+  it('should bill every partner debit and refund of a period exactly once, each invoice summing its ledger entries (property)', async () => {
+    const thisMonth = new Date(Date.UTC(new Date().getUTCFullYear(), new Date().getUTCMonth(), 1));
+    await fc.assert(
+      fc.asyncProperty(
+        fc.array(fc.record({ day: fc.integer({ min: 1, max: 28 }), cores: fc.integer({ min: 1, max: 64 }), hours: fc.integer({ min: 1, max: 30 }), refund: fc.boolean() }), { minLength: 1, maxLength: 5 }),
+        async (jobs) => {
+          const month = monthOf(nextMonth++);
+          const ids: string[] = [];
+          for (const j of jobs) {
+            const r = await run(`${month.toISOString().slice(0, 8)}${String(j.day).padStart(2, '0')}`, j.cores, j.hours);
+            ids.push(r.id);
+            // A refund counts in the month it is granted (this one), not the run's.
+            if (j.refund) await t.services.ledger.refund(actingAs(w.admin), campaignId, { runId: r.id, reason: 'property test' });
+          }
+          for (const start of [month, thisMonth]) {
+            const from = start.toISOString().slice(0, 10);
+            const to = new Date(Date.UTC(start.getUTCFullYear(), start.getUTCMonth() + 1, 0)).toISOString().slice(0, 10);
+            await InvoiceRunRow.update({ state: 'failed', error: 'closed by the test', finishedAt: new Date() }, { where: { state: ['queued', 'running'] } });
+            expect((await invoiceRun(from, to)).state).toBe('done');
+          }
+          // Each of these runs' debits and refunds is on exactly one live invoice, whose lines sum its entries.
+          const entries = await LedgerEntry.findAll({ where: { runId: ids } });
+          const billed = await t.db.sequelize.query<{ ledger_entry_id: string; invoice_id: string }>(
+            `SELECT b.ledger_entry_id, b.invoice_id FROM invoice_entries b JOIN invoices v ON v.id = b.invoice_id AND v.state <> 'void' WHERE b.ledger_entry_id IN (:ids)`,
+            { type: QueryTypes.SELECT, replacements: { ids: entries.map((e) => e.id) } },
+          );
+          expect(billed.map((b) => String(b.ledger_entry_id)).sort()).toEqual(entries.map((e) => String(e.id)).sort());
+          for (const invoiceId of new Set(billed.map((b) => b.invoice_id))) {
+            const [sum] = await t.db.sequelize.query<{ milli: string }>(
+              `SELECT -sum(e.milli) AS milli FROM invoice_entries b JOIN ledger_entries e ON e.id = b.ledger_entry_id WHERE b.invoice_id = :invoiceId`,
+              { type: QueryTypes.SELECT, replacements: { invoiceId } },
+            );
+            const invoice = (await InvoiceRow.findByPk(invoiceId))!;
+            const lines = invoice.lines as unknown as { coreHoursMilli: number; amountMinor: number; discountMinor: number; taxMinor: number }[];
+            expect(lines.reduce((a, l) => a + l.coreHoursMilli, 0)).toBe(Number(sum!.milli));
+            expect(Number(invoice.totalMinor)).toBe(lines.reduce((a, l) => a + l.amountMinor - l.discountMinor + l.taxMinor, 0));
+          }
+        },
+      ),
+      { numRuns: 6 },
+    );
+  }, 180_000);
 });
