@@ -17,8 +17,9 @@ afterAll(async () => db.close());
 describe('the demo partner’s invoices', () => {
   it('should be issued month by month, numbered in order, all paid but the newest', async () => {
     const rows = await InvoiceRow.findAll({ where: { institutionId: ORRIN }, order: [['periodFrom', 'ASC']] });
-    // Issued in the scenario: other tests may add drafts or pay the open one later.
-    const demo = rows.filter((r) => r.number !== null);
+    // Issued by the scenario, for months before the load: other tests issue invoices of far-off months of their own.
+    const today = new Date().toISOString().slice(0, 10);
+    const demo = rows.filter((r) => r.number !== null && r.periodTo < today);
     expect(demo.length).toBeGreaterThanOrEqual(2);
     expect(demo.slice(0, -1).every((r) => r.state === 'paid')).toBe(true);
     expect(demo.at(-1)!.state).toBe('issued');
