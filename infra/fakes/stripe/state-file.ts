@@ -31,7 +31,8 @@ async function writeAtomically(path: string, text: string): Promise<void> {
   const handle = await open(tmp, 'w');
   try {
     await handle.writeFile(text, 'utf8');
-    await handle.sync();
+    // The data on disk before the rename (fdatasync): the rename then never points at a half-written file.
+    await handle.datasync();
   } finally {
     await handle.close();
   }
